@@ -1,0 +1,64 @@
+// Byte sinks with all-or-nothing semantics: output goes to a temporary file beside the target
+// and is renamed into place only by commit(); a sink destroyed or aborted before commit()
+// leaves nothing under the final name. Optional zstd or gzip compression; "-" is stdout.
+#pragma once
+
+#include <cstdint>
+#include <memory>
+#include <optional>
+#include <string>
+#include <string_view>
+
+#include "base/status.h"
+#include "io/source.h"
+
+namespace evenhand::io {
+
+struct SinkOptions {
+  // nullopt: choose from the name (".zst" -> zstd, ".gz" -> gzip, otherwise none).
+  std::optional<Compression> compression;
+  int zstd_level = 3;
+  int zstd_workers = 0;  // zstd's own worker threads; 0 = compress in the caller's thread
+  int gzip_level = 6;
+};
+
+// Not copyable; not thread-safe.
+class Sink {
+ public:
+  ~Sink();  // aborts unless committed
+  Sink(const Sink&) = delete;
+  Sink& operator=(const Sink&) = delete;
+
+  // Creates the temporary file in the target's directory. Errors (kind output) when the
+  // directory does not exist or is not writable.
+  static Result<std::unique_ptr<Sink>> create(const std::string& path, const SinkOptions& options);
+
+  // Appends bytes (compressing as configured). Errors (kind output) on write failure, e.g. a
+  // full disk; after an error the sink is aborted.
+  Status write(std::string_view bytes);
+  // Finishes compression, flushes, fsyncs and renames the temporary file to the final path.
+  Status commit();
+  // Removes the temporary file. Safe to call more than once.
+  void abort();
+
+  const std::string& path() const { return path_; }
+  Compression compression() const { return compression_; }
+  // Bytes written to the file so far (after compression).
+  uint64_t bytes_written() const { return bytes_written_; }
+  // Hex SHA-256 of the bytes written to the file; valid after commit().
+  const std::string& sha256() const { return sha256_; }
+
+ private:
+  Sink();
+  struct Impl;
+  std::unique_ptr<Impl> impl_;
+  std::string path_;
+  Compression compression_ = Compression::none;
+  uint64_t bytes_written_ = 0;
+  std::string sha256_;
+};
+
+// Compression that SinkOptions{} would choose for `path`.
+Compression compression_for_name(const std::string& path);
+
+}  // namespace evenhand::io
