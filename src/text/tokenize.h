@@ -1,0 +1,43 @@
+// Word segmentation of UTF-8 text with byte offsets, following Unicode UAX #29 word
+// boundaries (ICU's word break rules) with an ASCII fast path that gives the same answer.
+// Every byte of the input belongs to exactly one token, so tokens tile the text.
+#pragma once
+
+#include <cstdint>
+#include <memory>
+#include <string_view>
+#include <vector>
+
+namespace evenhand::text {
+
+enum class TokenKind : uint8_t {
+  word,    // letters (may contain apostrophes and the like inside, per UAX #29: "mother's")
+  number,  // digits (and UAX #29 numeric sequences such as "3.14")
+  space,   // white space
+  punct,   // anything else: punctuation, symbols, hyphens, emoji
+};
+
+struct Token {
+  uint32_t begin = 0;  // byte offsets into the text: [begin, end)
+  uint32_t end = 0;
+  TokenKind kind = TokenKind::punct;
+};
+
+// One per worker thread: holds ICU state and scratch, reused across calls.
+// Not copyable; not thread-safe.
+class Tokenizer {
+ public:
+  Tokenizer();
+  ~Tokenizer();
+  Tokenizer(const Tokenizer&) = delete;
+  Tokenizer& operator=(const Tokenizer&) = delete;
+
+  // Replaces `out` with the tokens of `text` (valid UTF-8), in order, tiling the text.
+  void tokenize(std::string_view text, std::vector<Token>& out);
+
+ private:
+  struct Impl;
+  std::unique_ptr<Impl> impl_;
+};
+
+}  // namespace evenhand::text
