@@ -1,0 +1,133 @@
+// Rule packs: the data that says which words belong to which group of an axis (for example
+// gender: female, male, later neutral) and how they map onto each other. A pack is read from
+// text files (rules/README.md documents the syntax), checked, and compiled once into an
+// immutable CompiledPack that every worker thread shares read-only.
+#pragma once
+
+#include <cstdint>
+#include <map>
+#include <memory>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <unordered_map>
+#include <vector>
+
+#include "base/status.h"
+
+namespace evenhand::pack {
+
+// Where an entry was written, for the audit log and for check messages ("words.txt:12").
+struct SourceRef {
+  std::string file;  // file name inside the pack, e.g. "words.txt"
+  uint32_t line = 0;
+  std::string str() const { return file + ":" + std::to_string(line); }
+};
+
+// One problem found while reading or checking a pack.
+struct Diagnostic {
+  SourceRef where;
+  std::string message;  // e.g. "'her' has two counterparts in group male ('him', 'his') and no tag"
+};
+
+// Slot or part-of-speech tags that choose between several counterparts of one form.
+// The engine knows how to decide each of these from context.
+enum class Tag : uint8_t { none = 0, subj, obj, det, poss, noun, adj, verb };
+const char* tag_name(Tag t);
+std::optional<Tag> parse_tag(std::string_view s);
+
+// One equivalence set: the same word in each group (a form may be absent: "-").
+struct WordSet {
+  std::vector<std::string> forms;  // index = group; "" where the group has no form
+  Tag tag = Tag::none;
+  SourceRef where;
+};
+
+// A first-name pair across groups (index = group, "" = none). `word_like` marks names that
+// are also common lower-case words ("Rose", "Bill"): swapped only in name-like positions.
+struct NamePair {
+  std::vector<std::string> names;
+  bool word_like = false;
+  SourceRef where;
+};
+
+// A phrase that blocks the axis for the whole record it appears in, with its reason class
+// (e.g. "medical", "legal").
+struct Guard {
+  std::string phrase;  // as written; matched case-insensitively on whole words
+  std::string reason;
+  SourceRef where;
+};
+
+// An entry of the compiled lexicon: one form (a sequence of case-folded words) of one set.
+struct LexEntry {
+  std::vector<std::string> words;  // folded words; multiword forms have several
+  uint32_t set = 0;                // index into sets() (or names() when is_name)
+  uint16_t group = 0;              // the group this form belongs to
+  Tag tag = Tag::none;
+  bool is_name = false;
+};
+
+class CompiledPack {
+ public:
+  CompiledPack(const CompiledPack&) = delete;
+  CompiledPack& operator=(const CompiledPack&) = delete;
+
+  const std::string& name() const { return name_; }
+  const std::string& version() const { return version_; }
+  const std::string& language() const { return language_; }
+  const std::string& axis() const { return axis_; }
+  const std::vector<std::string>& groups() const { return groups_; }
+  // Index of a group by name, or nullopt.
+  std::optional<uint16_t> group_index(std::string_view name) const;
+  // Hex SHA-256 over the pack's files (name and bytes of each, in sorted name order).
+  const std::string& sha256() const { return sha256_; }
+
+  const std::vector<WordSet>& sets() const { return sets_; }
+  const std::vector<NamePair>& names() const { return names_; }
+  const std::vector<Guard>& guards() const { return guards_; }
+  // Protected phrases (never rewritten), as written.
+  const std::vector<std::string>& protected_phrases() const { return protected_; }
+  // Free-form key/value facts from the header (licence, sources), in file order.
+  const std::vector<std::pair<std::string, std::string>>& meta() const { return meta_; }
+
+  // All lexicon entries whose first folded word is `folded_word` (longest first), or null.
+  const std::vector<LexEntry>* lookup(std::string_view folded_word) const;
+
+  // The most words any entry has (for multiword matching windows).
+  size_t max_entry_words() const { return max_words_; }
+
+ private:
+  friend class PackBuilder;
+  CompiledPack() = default;
+  std::string name_, version_, language_, axis_, sha256_;
+  std::vector<std::string> groups_;
+  std::vector<WordSet> sets_;
+  std::vector<NamePair> names_;
+  std::vector<Guard> guards_;
+  std::vector<std::string> protected_;
+  std::vector<std::pair<std::string, std::string>> meta_;
+  std::unordered_map<std::string, std::vector<LexEntry>> index_;
+  size_t max_words_ = 1;
+};
+
+// Reads and checks a pack. `diagnostics` receives every problem found (not only the first);
+// the result is an Error (kind pack, naming the first problem) when there is any.
+// Loads a pack from a directory on disk.
+Result<std::shared_ptr<const CompiledPack>> load_pack_dir(const std::string& dir,
+                                                          std::vector<Diagnostic>& diagnostics);
+// Loads a pack from in-memory files (name -> bytes), e.g. the packs built into the binary.
+Result<std::shared_ptr<const CompiledPack>> load_pack_files(
+    const std::string& label, const std::map<std::string, std::string>& files,
+    std::vector<Diagnostic>& diagnostics);
+
+// Names of the packs built into the binary (rules/*/ at build time), sorted.
+std::vector<std::string> builtin_pack_names();
+// The files of a built-in pack, or nullopt.
+std::optional<std::map<std::string, std::string>> builtin_pack_files(std::string_view name);
+
+// Resolves a --pack argument: a built-in name, or else a directory path.
+Result<std::shared_ptr<const CompiledPack>> load_pack(const std::string& name_or_dir,
+                                                      std::vector<Diagnostic>& diagnostics);
+
+}  // namespace evenhand::pack
