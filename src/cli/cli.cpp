@@ -1,0 +1,64 @@
+#include "cli/cli.h"
+
+#include <exception>
+#include <iostream>
+#include <string>
+#include <vector>
+
+#include "cli/common.h"
+#include "evenhand/version.h"
+
+namespace evenhand::cli {
+
+namespace {
+
+const char* kUsageText =
+    "Usage: evenhand COMMAND [OPTIONS]\n"
+    "\n"
+    "Counterfactual data augmentation for training corpora.\n"
+    "\n"
+    "Commands:\n"
+    "  run      rewrite a corpus: augment, substitute or pass through (see run --help)\n"
+    "  check    validate a rule pack and report every problem with file:line\n"
+    "  packs    list the rule packs built into this binary\n"
+    "\n"
+    "Options:\n"
+    "  --help     show this help\n"
+    "  --version  show the version\n"
+    "\n"
+    "'evenhand COMMAND --help' shows a command's options.\n";
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  std::vector<std::string> all(argv, argv + argc);
+  if (argc < 2) {
+    std::cerr << kUsageText;
+    return kUsage;
+  }
+  std::string cmd = argv[1];
+  std::vector<std::string> rest(all.begin() + 2, all.end());
+  try {
+    if (cmd == "--help" || cmd == "-h" || cmd == "help") {
+      std::cout << kUsageText;
+      return kOk;
+    }
+    if (cmd == "--version") {
+      std::cout << "evenhand " << kVersion << "\n";
+      return kOk;
+    }
+    if (cmd == "run") return run_command(rest, all);
+    if (cmd == "check") return check_command(rest);
+    if (cmd == "packs") return packs_command(rest);
+    print_error("unknown command '" + cmd + "' (see 'evenhand --help')");
+    return kUsage;
+  } catch (const std::bad_alloc&) {
+    print_error("out of memory");
+    return kInternal;
+  } catch (const std::exception& e) {
+    print_error(std::string("internal error: ") + e.what());
+    return kInternal;
+  }
+}
+
+}  // namespace evenhand::cli

@@ -1,0 +1,66 @@
+#include "cli/common.h"
+
+#include <ctime>
+#include <iostream>
+
+#include "cli/cli.h"
+#include "io/sink.h"
+
+namespace evenhand::cli {
+
+void print_error(const std::string& message) { std::cerr << "evenhand: " << message << "\n"; }
+
+int exit_code_for(ErrorKind kind) {
+  switch (kind) {
+    case ErrorKind::usage: return kUsage;
+    case ErrorKind::input: return kInput;
+    case ErrorKind::output: return kOutput;
+    case ErrorKind::pack: return kPack;
+    case ErrorKind::internal: return kInternal;
+  }
+  return kInternal;
+}
+
+int report(const Error& e) {
+  print_error(e.message());
+  return exit_code_for(e.kind);
+}
+
+int parse_args(const std::string& command, const std::string& synopsis,
+               const po::options_description& options, const std::vector<std::string>& args,
+               po::variables_map& vm, const po::positional_options_description* positional) {
+  try {
+    auto parser = po::command_line_parser(args).options(options);
+    if (positional) parser.positional(*positional);
+    po::store(parser.run(), vm);
+    if (vm.count("help")) {
+      std::cout << "Usage: evenhand " << command << " " << synopsis << "\n\n" << options << "\n";
+      return kOk;
+    }
+    po::notify(vm);
+  } catch (const po::error& e) {
+    print_error(command + ": " + e.what() + " (see 'evenhand " + command + " --help')");
+    return kUsage;
+  }
+  return -1;
+}
+
+std::string utc_now() {
+  std::time_t t = std::time(nullptr);
+  std::tm tm{};
+  gmtime_r(&t, &tm);
+  char buf[32];
+  std::strftime(buf, sizeof buf, "%Y-%m-%dT%H:%M:%SZ", &tm);
+  return buf;
+}
+
+Status write_file_atomic(const std::string& path, const std::string& text) {
+  io::SinkOptions so;
+  so.compression = io::Compression::none;
+  auto sink = io::Sink::create(path, so);
+  if (!sink.ok()) return std::move(sink).error();
+  EVENHAND_TRY((*sink)->write(text));
+  return (*sink)->commit();
+}
+
+}  // namespace evenhand::cli

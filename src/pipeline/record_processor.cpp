@@ -1,0 +1,256 @@
+#include "pipeline/record_processor.h"
+
+#include <simdjson.h>
+
+#include <algorithm>
+
+#include "audit/json_writer.h"
+#include "base/hash.h"
+
+namespace evenhand::pipeline {
+
+std::string rejection_code(const Error& e) {
+  const std::string& r = e.reason;
+  if (r.rfind("invalid UTF-8", 0) == 0) return "invalid_utf8";
+  if (r.rfind("record is not a JSON object", 0) == 0) return "not_object";
+  if (r.rfind("record of ", 0) == 0) return "record_too_large";
+  if (r.rfind("invalid JSON", 0) == 0) return "invalid_json";
+  return "invalid_record";
+}
+
+struct RecordProcessor::Impl {
+  const RunOptions& options;
+  const rewrite::Engine& engine;
+  size_t n_patterns;
+  bool has_id;
+  corpus::FieldSelector selector;
+  std::unique_ptr<rewrite::Worker> worker;
+
+  // Scratch reused across records.
+  std::vector<corpus::FieldMatch> matches;
+  std::vector<uint32_t> field_match;  // field index -> match index
+  std::vector<std::string_view> fields;
+  std::vector<std::string> pointers;
+  rewrite::RecordResult result;
+  std::vector<corpus::FieldEdits> field_edits;
+  std::string line;   // a counterfactual line
+  std::string tmp;
+
+  Impl(const RunOptions& o, std::vector<corpus::PointerPattern> patterns,
+       std::optional<corpus::PointerPattern> id, const rewrite::Engine& e)
+      : options(o),
+        engine(e),
+        n_patterns(patterns.size()),
+        has_id(id.has_value()),
+        selector(with_id(std::move(patterns), std::move(id))),
+        worker(e.make_worker()) {}
+
+  static std::vector<corpus::PointerPattern> with_id(std::vector<corpus::PointerPattern> p,
+                                                     std::optional<corpus::PointerPattern> id) {
+    if (id) p.push_back(std::move(*id));
+    return p;
+  }
+
+  void provenance(std::string_view record, const RecordOrigin& origin, bool counterfactual,
+                  std::string& out) {
+    tmp.clear();
+    audit::JsonWriter w(tmp);
+    w.begin_object()
+        .key("source")
+        .value(*origin.path)
+        .key("line")
+        .value(origin.line)
+        .key("copy")
+        .value(counterfactual ? "counterfactual" : "original")
+        .end_object();
+    corpus::append_with_member(record, kProvenanceKey, tmp, out);
+  }
+
+  void write_line(std::string_view record, std::string_view eol, const RecordOrigin& origin,
+                  bool counterfactual, std::string& out) {
+    if (options.provenance && options.format == Format::jsonl) {
+      provenance(record, origin, counterfactual, out);
+    } else {
+      out.append(record);
+    }
+    if (options.framing == corpus::Framing::paragraphs) {
+      out += "\n\n";
+    } else {
+      out.append(eol.empty() ? std::string_view("\n") : eol);
+    }
+  }
+
+  // Builds the counterfactual of `record` from result.edits into `line`.
+  void build_counterfactual(std::string_view record) {
+    line.clear();
+    if (options.format == Format::text) {
+      size_t pos = 0;
+      for (const auto& e : result.edits) {
+        line.append(record.substr(pos, e.begin - pos));
+        line.append(e.replacement);
+        pos = e.end;
+      }
+      line.append(record.substr(pos));
+      return;
+    }
+    field_edits.clear();
+    for (const auto& e : result.edits) {
+      uint32_t m = field_match[e.field];
+      if (field_edits.empty() || field_edits.back().match != m) {
+        field_edits.push_back({m, {}});
+      }
+      field_edits.back().edits.push_back({e.begin, e.end, e.replacement});
+    }
+    selector.splice(record, matches, field_edits, line);
+  }
+
+  void audit_line(const RecordOrigin& origin, const char* action, std::string& out) {
+    audit::JsonWriter w(out);
+    w.begin_object().key("input").value(*origin.path).key("line").value(origin.line);
+    w.key("action").value(action);
+    w.key("edits").begin_array();
+    for (const auto& e : result.edits) {
+      w.begin_object();
+      w.key("field").value(options.format == Format::text ? std::string_view("")
+                                                           : std::string_view(pointers[e.field]));
+      w.key("at").value(static_cast<uint64_t>(e.begin));
+      w.key("len").value(static_cast<uint64_t>(e.end - e.begin));
+      w.key("from").value(fields[e.field].substr(e.begin, e.end - e.begin));
+      w.key("to").value(e.replacement);
+      if (e.rule) w.key("rule").value(e.rule->str());
+      w.key("why").value(rewrite::edit_reason_name(e.reason));
+      if (e.reason == rewrite::EditReason::context) w.key("score").value(static_cast<double>(e.score));
+      w.end_object();
+    }
+    w.end_array().end_object();
+    out += '\n';
+  }
+
+  void guard_line(const RecordOrigin& origin, std::string& out) {
+    audit::JsonWriter w(out);
+    w.begin_object().key("input").value(*origin.path).key("line").value(origin.line);
+    w.key("action").value("guarded");
+    w.key("guard").value(result.guard->reason);
+    w.key("phrase").value(result.guard->phrase);
+    w.key("rule").value(result.guard->where.str());
+    w.end_object();
+    out += '\n';
+  }
+
+  static void tally(std::vector<audit::GroupTally>& into, const rewrite::GroupCounts& counts) {
+    if (into.size() < counts.size()) into.resize(counts.size());
+    for (size_t g = 0; g < counts.size(); ++g) {
+      into[g].mentions += counts[g];
+      if (counts[g] > 0) ++into[g].records;
+    }
+  }
+
+  Status process(std::string_view record, std::string_view eol, const RecordOrigin& origin,
+                 RecordOutput& out) {
+    audit::Stats& st = *out.stats;
+    fields.clear();
+    pointers.clear();
+    field_match.clear();
+    std::string_view identity = record;
+    if (options.format == Format::jsonl) {
+      corpus::SelectStats ss;
+      Status s = selector.select(record, matches, ss);
+      if (!s.ok()) {
+        Error e = std::move(s).error();
+        e.file = *origin.path;
+        e.line = origin.line;
+        return e;
+      }
+      st.fields_missing += ss.missing;
+      st.fields_not_string += ss.not_string;
+      for (uint32_t i = 0; i < matches.size(); ++i) {
+        const auto& m = matches[i];
+        if (has_id && m.pattern == n_patterns) {
+          identity = record.substr(m.raw_begin, m.raw_end - m.raw_begin);
+          continue;
+        }
+        if (!m.is_string) continue;
+        fields.push_back(m.text);
+        pointers.push_back(m.pointer);
+        field_match.push_back(i);
+      }
+    } else {
+      if (!simdjson::validate_utf8(record.data(), record.size())) {
+        Error e = make_error(ErrorKind::input, *origin.path, "invalid UTF-8 in text record");
+        e.line = origin.line;
+        return e;
+      }
+      fields.push_back(record);
+    }
+    st.fields_selected += fields.size();
+    ++st.records_read;
+
+    if (options.mode == Mode::passthrough) {
+      result.clear();
+    } else {
+      worker->rewrite(fields, result);
+    }
+    tally(st.before, result.before);
+    bool mentions = result.has_mentions();
+    if (mentions) ++st.records_with_mentions;
+    if (result.guard) {
+      ++st.records_guarded;
+      ++st.guarded_by_reason[result.guard->reason];
+      if (out.edits) {
+        guard_line(origin, *out.edits);
+        ++st.audit_lines;
+      }
+    }
+    st.protected_skips += result.protected_spans;
+    st.ambiguous += result.ambiguous;
+
+    bool can_rewrite = mentions && !result.guard && !result.edits.empty();
+    bool replace = false, add = false;
+    if (can_rewrite) {
+      if (options.mode == Mode::augment) {
+        add = true;
+      } else if (options.mode == Mode::substitute) {
+        replace = hash_unit(stable_hash(options.seed, identity)) < options.rate;
+      }
+    }
+    if (!replace) {
+      write_line(record, eol, origin, false, *out.out);
+      ++st.records_kept;
+      ++st.records_written;
+      tally(st.after, result.before);
+    }
+    if (replace || add) {
+      build_counterfactual(record);
+      write_line(line, eol, origin, true, *out.out);
+      ++st.records_written;
+      if (replace) {
+        ++st.records_replaced;
+      } else {
+        ++st.records_added;
+      }
+      tally(st.after, result.after);
+      st.edits += result.edits.size();
+      for (uint32_t hit : result.entry_hits) ++st.entry_hits[hit];
+      if (out.edits) {
+        audit_line(origin, replace ? "replaced" : "added", *out.edits);
+        ++st.audit_lines;
+      }
+    }
+    return ok_status();
+  }
+};
+
+RecordProcessor::RecordProcessor(const RunOptions& options,
+                                 std::vector<corpus::PointerPattern> patterns,
+                                 std::optional<corpus::PointerPattern> id_pattern,
+                                 const rewrite::Engine& engine)
+    : impl_(std::make_unique<Impl>(options, std::move(patterns), std::move(id_pattern), engine)) {}
+
+RecordProcessor::~RecordProcessor() = default;
+
+Status RecordProcessor::process(std::string_view record, std::string_view eol,
+                                const RecordOrigin& origin, RecordOutput& out) {
+  return impl_->process(record, eol, origin, out);
+}
+
+}  // namespace evenhand::pipeline

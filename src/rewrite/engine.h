@@ -1,0 +1,87 @@
+// The rewrite engine: given the selected string fields of one record, finds every mention of
+// the pack's groups and produces the edits that turn the record into its counterfactual,
+// each edit explained (which pack entry fired and why). The Engine is immutable and shared by
+// all threads; each thread makes its own Worker for scratch state.
+#pragma once
+
+#include <cstdint>
+#include <memory>
+#include <optional>
+#include <span>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "base/status.h"
+#include "pack/pack.h"
+
+namespace evenhand::rewrite {
+
+// Why an edit was made.
+enum class EditReason : uint8_t {
+  lexicon,   // a one-to-one word form of the pack
+  name,      // a first name
+  context,   // a one-to-many form decided from context (score says how sure)
+  agreement, // a dependent word changed to agree with an edit (verbs, articles)
+};
+const char* edit_reason_name(EditReason r);
+
+struct Edit {
+  uint32_t field = 0;   // index of the field in the record
+  uint32_t begin = 0;   // decoded byte range in that field's text
+  uint32_t end = 0;
+  std::string replacement;
+  EditReason reason = EditReason::lexicon;
+  const pack::SourceRef* rule = nullptr;  // the pack line that fired (owned by the pack)
+  float score = 0;      // decision margin for context edits
+};
+
+// Counts per group, indexed like CompiledPack::groups().
+using GroupCounts = std::vector<uint32_t>;
+
+struct RecordResult {
+  std::vector<Edit> edits;   // sorted by (field, begin), not overlapping
+  GroupCounts before;        // mentions of each group in the record as read
+  GroupCounts after;         // mentions of each group in the counterfactual
+  const pack::Guard* guard = nullptr;  // set when a guard phrase blocked the rewrite
+  uint32_t protected_spans = 0;        // mentions skipped because they sat in protected spans
+  uint32_t ambiguous = 0;              // context decisions with a low margin
+  std::vector<uint32_t> entry_hits;    // indices of the sets/names that fired, one per edit
+
+  bool has_mentions() const;
+  void clear();
+};
+
+struct EngineOptions {
+  // Protected-span user patterns (ICU regular expressions).
+  std::vector<std::string> protect_patterns;
+  // Rewrite toward one group only (#4); nullopt: every group to its counterpart.
+  std::optional<uint16_t> toward;
+};
+
+class Engine;
+
+// Per-thread scratch. Not copyable; not thread-safe.
+class Worker {
+ public:
+  virtual ~Worker() = default;
+  // Analyses the fields of one record (valid UTF-8 each) and fills `out`.
+  virtual void rewrite(std::span<const std::string_view> fields, RecordResult& out) = 0;
+};
+
+class Engine {
+ public:
+  virtual ~Engine() = default;
+  // The pack in use, or null for the identity engine.
+  virtual const pack::CompiledPack* pack() const = 0;
+  virtual std::unique_ptr<Worker> make_worker() const = 0;
+};
+
+// An engine that finds no mentions and makes no edits (pass-through runs and tests).
+std::unique_ptr<Engine> make_identity_engine();
+
+// The pack-driven engine. Errors (kind usage) for bad options, e.g. a broken protect pattern.
+Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::CompiledPack> pack,
+                                            const EngineOptions& options);
+
+}  // namespace evenhand::rewrite
