@@ -11,6 +11,16 @@
 
 namespace evenhand {
 
+namespace detail {
+// Which compression function a Sha256 uses; exposed so tests can compare the two paths.
+enum class Sha256Path { portable, sha_ni };
+// True when this CPU has the x86 SHA extensions (and SSE4.1) and the SHA-NI path can run.
+bool sha256_sha_ni_available();
+// Hex SHA-256 of `data` computed with the given path. Falls back to the portable path when
+// sha_ni is asked for but not available (check sha256_sha_ni_available() first).
+std::string sha256_hex_via(Sha256Path path, std::string_view data);
+}  // namespace detail
+
 class Sha256 {
  public:
   Sha256();
@@ -23,7 +33,9 @@ class Sha256 {
   std::string finish_hex();
 
  private:
+  friend std::string detail::sha256_hex_via(detail::Sha256Path path, std::string_view data);
   void compress(const uint8_t* blocks, size_t count);
+  bool use_sha_ni_ = false;
   std::array<uint32_t, 8> h_;
   std::array<uint8_t, 64> buf_;
   size_t buf_len_ = 0;
