@@ -119,6 +119,7 @@ class Runner {
   const rewrite::Engine& engine_;
   unsigned threads_ = 1;
   std::vector<corpus::PointerPattern> patterns_;
+  std::vector<std::string> names_;  // inputs as named in messages ("-" is "<stdin>")
   std::optional<corpus::PointerPattern> id_pattern_;
 
   std::unique_ptr<io::Sink> out_, edits_, quarantine_, rejects_;
@@ -160,6 +161,7 @@ Status Runner::prepare() {
   int stdin_count = 0;
   for (const auto& in : opt_.inputs) stdin_count += in == "-";
   if (stdin_count > 1) return make_error(ErrorKind::usage, "-", "stdin given as input twice");
+  for (const auto& in : opt_.inputs) names_.push_back(in == "-" ? "<stdin>" : in);
 
   // No output may overwrite an input or another output.
   std::vector<std::pair<std::string, const char*>> outs = {{opt_.output, "--out"}};
@@ -279,7 +281,7 @@ void Runner::reader_main() {
 
 void Runner::process_batch(Batch& b, RecordProcessor& proc) {
   if (b.fatal || b.last) return;
-  const std::string& path = opt_.inputs[b.input];
+  const std::string& path = names_[b.input];
   RecordOutput out{&b.out, edits_ ? &b.edits : nullptr, &b.stats};
   b.out.reserve(b.data.size() * (opt_.mode == Mode::augment ? 2 : 1) + 64);
   b.stats.blank_lines = b.blank_lines;

@@ -1,0 +1,219 @@
+// The command line end to end: every kind of bad input gets one clear line naming file, line
+// and reason, a documented exit code, and no output under the final name.
+#include <catch2/catch.hpp>
+
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include <cstdio>
+#include <filesystem>
+
+#include "support/temp_dir.h"
+
+using evenhand::testing::read_file;
+using evenhand::testing::shell;
+using evenhand::testing::TempDir;
+using evenhand::testing::write_file;
+
+namespace {
+
+std::string binary() {
+  const char* b = std::getenv("EVENHAND_BINARY");
+  REQUIRE(b != nullptr);
+  return b;
+}
+
+struct Ran {
+  int code = -1;
+  std::string err;
+  std::string out;
+};
+
+// Runs evenhand with `args` (already shell-quoted), capturing stderr and stdout.
+Ran run(const TempDir& d, const std::string& args, const std::string& stdin_file = "/dev/null") {
+  Ran r;
+  std::string cmd = binary() + " " + args + " <" + stdin_file + " >" + d.file("stdout") + " 2>" +
+                    d.file("stderr");
+  r.code = shell(cmd);
+  r.err = read_file(d.file("stderr"));
+  r.out = read_file(d.file("stdout"));
+  return r;
+}
+
+std::string passthrough(const TempDir& d, const std::string& in, const std::string& extra = "") {
+  return "run --mode passthrough --in " + in + " --out " + d.file("out.jsonl") + " " + extra;
+}
+
+size_t line_count(const std::string& s) { return std::count(s.begin(), s.end(), '\n'); }
+
+// Exit codes as documented in the README.
+constexpr int kUsage = 2, kInput = 3, kOutput = 4;
+
+}  // namespace
+
+TEST_CASE("--version and --help on every command") {
+  TempDir d;
+  auto v = run(d, "--version");
+  REQUIRE(v.code == 0);
+  REQUIRE(v.out.rfind("evenhand ", 0) == 0);
+  for (const char* c : {"run", "check", "packs"}) {
+    auto h = run(d, std::string(c) + " --help");
+    INFO(c);
+    REQUIRE(h.code == 0);
+    REQUIRE(h.out.find("Usage: evenhand " + std::string(c)) == 0);
+  }
+  REQUIRE(run(d, "frobnicate").code == kUsage);
+  REQUIRE(run(d, "run --no-such-option").code == kUsage);
+}
+
+TEST_CASE("malformed JSON names file and line; no output is left") {
+  TempDir d;
+  std::string in = d.file("in.jsonl");
+  write_file(in, "{\"text\":\"ok\"}\n{\"text\":\"no end\"\n");
+  auto r = run(d, passthrough(d, in));
+  REQUIRE(r.code == kInput);
+  REQUIRE(line_count(r.err) == 1);
+  REQUIRE(r.err.find("evenhand: " + in + ":2: invalid JSON") == 0);
+  REQUIRE_FALSE(std::filesystem::exists(d.file("out.jsonl")));
+}
+
+TEST_CASE("a line that is not a JSON object is rejected") {
+  TempDir d;
+  std::string in = d.file("in.jsonl");
+  write_file(in, "[\"text\"]\n");
+  auto r = run(d, passthrough(d, in));
+  REQUIRE(r.code == kInput);
+  REQUIRE(r.err.find(in + ":1: record is not a JSON object") != std::string::npos);
+}
+
+TEST_CASE("invalid UTF-8 in a selected field is rejected") {
+  TempDir d;
+  std::string in = d.file("in.jsonl");
+  write_file(in, "{\"text\":\"ok\"}\n{\"text\":\"caf\xc3\"}\n");
+  auto r = run(d, passthrough(d, in));
+  REQUIRE(r.code == kInput);
+  REQUIRE(r.err.find(in + ":2: invalid UTF-8") != std::string::npos);
+}
+
+TEST_CASE("a record over --max-record-bytes is rejected; skip counts and drops it") {
+  TempDir d;
+  std::string in = d.file("in.jsonl");
+  write_file(in, "{\"text\":\"" + std::string(2000, 'a') + "\"}\n{\"text\":\"short\"}\n");
+  auto r = run(d, passthrough(d, in, "--max-record-bytes 1K"));
+  REQUIRE(r.code == kInput);
+  REQUIRE(r.err.find(in + ":1: record of 2012 bytes is over --max-record-bytes 1024") !=
+          std::string::npos);
+  auto s = run(d, passthrough(d, in, "--max-record-bytes 1K --on-bad-record skip --manifest " +
+                                         d.file("m.json")));
+  REQUIRE(s.code == 0);
+  REQUIRE(read_file(d.file("out.jsonl")) == "{\"text\":\"short\"}\n");
+  std::string m = read_file(d.file("m.json"));
+  REQUIRE(m.find("\"record_too_large\": 1") != std::string::npos);
+}
+
+TEST_CASE("truncated and corrupt compressed input name the byte offset") {
+  TempDir d;
+  std::string plain = d.file("p.jsonl");
+  std::string body;
+  for (int i = 0; i < 20000; ++i) body += "{\"text\":\"line " + std::to_string(i) + "\"}\n";
+  write_file(plain, body);
+  for (const std::string tool : {"zstd", "gzip"}) {
+    std::string z = d.file("in." + tool);
+    REQUIRE(shell(tool + " -c " + plain + " > " + z) == 0);
+    std::string bytes = read_file(z);
+    write_file(z, bytes.substr(0, bytes.size() / 2));
+    auto r = run(d, passthrough(d, z));
+    INFO(tool << ": " << r.err);
+    REQUIRE(r.code == kInput);
+    REQUIRE(line_count(r.err) == 1);
+    REQUIRE(r.err.find(z) != std::string::npos);
+    REQUIRE(r.err.find("byte ") != std::string::npos);
+    REQUIRE(r.err.find("truncated") != std::string::npos);
+    REQUIRE_FALSE(std::filesystem::exists(d.file("out.jsonl")));
+  }
+}
+
+TEST_CASE("an unreadable input is a clear error") {
+  TempDir d;
+  auto r = run(d, passthrough(d, d.file("missing.jsonl")));
+  REQUIRE(r.code == kInput);
+  REQUIRE(r.err.find(d.file("missing.jsonl")) != std::string::npos);
+  REQUIRE(r.err.find("No such file") != std::string::npos);
+  auto dir = run(d, passthrough(d, d.path().string()));
+  REQUIRE(dir.code == kInput);
+  REQUIRE(dir.err.find("is a directory") != std::string::npos);
+}
+
+TEST_CASE("an unwritable output directory fails before reading") {
+  TempDir d;
+  std::string in = d.file("in.jsonl");
+  write_file(in, "{\"text\":\"x\"}\n");
+  auto r = run(d, "run --mode passthrough --in " + in + " --out " + d.file("no/such/dir/out.jsonl"));
+  REQUIRE(r.code == kOutput);
+  REQUIRE(line_count(r.err) == 1);
+  REQUIRE(r.err.find("does not exist") != std::string::npos);
+}
+
+TEST_CASE("a full disk is reported and exits with the output code") {
+  TempDir d;
+  std::string in = d.file("in.jsonl");
+  std::string body;
+  for (int i = 0; i < 50000; ++i) body += "{\"text\":\"filler line number " + std::to_string(i) + "\"}\n";
+  write_file(in, body);
+  auto r = run(d, "run --mode passthrough --in " + in + " --out /dev/full");
+  REQUIRE(r.code == kOutput);
+  REQUIRE(r.err.find("disk full") != std::string::npos);
+}
+
+TEST_CASE("an output that names an input is refused") {
+  TempDir d;
+  std::string in = d.file("in.jsonl");
+  write_file(in, "{\"text\":\"x\"}\n");
+  auto r = run(d, "run --mode passthrough --in " + in + " --out " + in);
+  REQUIRE(r.code == kUsage);
+  REQUIRE(read_file(in) == "{\"text\":\"x\"}\n");
+}
+
+TEST_CASE("stdin and stdout work as - ; quarantine keeps raw lines") {
+  TempDir d;
+  std::string in = d.file("in.jsonl");
+  write_file(in, "{\"text\":\"a\"}\nnot json\n{\"text\":\"b\"}\n");
+  auto r = run(d,
+               "run --mode passthrough --in - --out - --on-bad-record quarantine --quarantine " +
+                   d.file("q.txt") + " --manifest " + d.file("m.json"),
+               in);
+  REQUIRE(r.code == 0);
+  REQUIRE(r.out == "{\"text\":\"a\"}\n{\"text\":\"b\"}\n");
+  REQUIRE(read_file(d.file("q.txt")) == "not json\n");
+  REQUIRE(r.err.find("rejected: <stdin>:2: invalid JSON") != std::string::npos);
+}
+
+TEST_CASE("the manifest carries the fixed keys and the record invariant") {
+  TempDir d;
+  std::string in = d.file("in.jsonl");
+  write_file(in, "{\"text\":\"a\"}\n\n{bad\n{\"x\":1}\n");
+  auto r = run(d, passthrough(d, in, "--on-bad-record skip --manifest " + d.file("m.json")));
+  REQUIRE(r.code == 0);
+  std::string m = d.file("m.json");
+  // Read it back with jq (Debian package jq), a JSON parser outside the project.
+  auto q = [&](const std::string& expr) {
+    REQUIRE(shell("jq -r '" + expr + "' " + m + " > " + d.file("q")) == 0);
+    std::string s = read_file(d.file("q"));
+    return s.substr(0, s.size() - 1);
+  };
+  REQUIRE(q(".schema") == "evenhand.manifest/1");
+  REQUIRE(q(".records.read") == "3");
+  REQUIRE(q(".records.written") == "2");
+  REQUIRE(q(".records.rejected") == "1");
+  REQUIRE(q(".records.rejected_by_reason.invalid_json") == "1");
+  REQUIRE(q(".records.blank_lines") == "1");
+  REQUIRE(q(".fields.missing") == "1");
+  REQUIRE(q(".records.read == .records.kept + .records.replaced + .records.rejected") == "true");
+  REQUIRE(q(".inputs[0].sha256") == [&] {
+    REQUIRE(shell("sha256sum " + in + " | cut -c1-64 > " + d.file("h")) == 0);
+    std::string h = read_file(d.file("h"));
+    return h.substr(0, 64);
+  }());
+  REQUIRE(q(".outputs[0].role") == "corpus");
+  REQUIRE(q(".groups | type") == "object");
+}
