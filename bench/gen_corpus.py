@@ -357,7 +357,7 @@ def main(argv=None):
     out = sys.stdout.buffer if args.out == "-" else open(args.out, "wb")
     dumps = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": ")).encode
     rand = gen.rand
-    written = records = with_mention = words = mentions = 0
+    written = records = with_mention = words = mention_words = 0
     prefix = f"{args.shape[0]}{args.seed}-"
     chunk, chunk_bytes = [], 0
     want_words = args.stats
@@ -374,13 +374,16 @@ def main(argv=None):
                 rec = gen.plain(rid) if r < 0.5 else gen.chat(rid) if r < 0.85 else gen.extra(rid)
             line = (dumps(rec) + "\n").encode("utf-8")
             records += 1
-            if gen.mentions > before:
-                with_mention += 1
             if want_words:
                 if "text" in rec:
-                    words += len(rec["text"].split())
+                    n = len(rec["text"].split())
                 else:
-                    words += sum(len(m["content"].split()) for m in rec["messages"])
+                    n = sum(len(m["content"].split()) for m in rec["messages"])
+                words += n
+                if gen.mentions > before:
+                    mention_words += n
+            if gen.mentions > before:
+                with_mention += 1
             chunk.append(line)
             chunk_bytes += len(line)
             written += len(line)
@@ -397,7 +400,8 @@ def main(argv=None):
     mentions = gen.mentions
     if args.stats:
         print(f"records {records}, bytes {written}, words {words}, mentions {mentions}, "
-              f"words per mention {words / max(mentions, 1):.1f}, "
+              f"words per mention {words / max(mentions, 1):.1f} "
+              f"({mention_words / max(mentions, 1):.1f} in records with one), "
               f"records with a mention {100.0 * with_mention / max(records, 1):.1f}%",
               file=sys.stderr)
     return 0
