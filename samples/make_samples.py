@@ -254,8 +254,8 @@ def chat_digital(c):
          "{a.s} is stuck on the first screen.",
          "We do. Sessions are free and last forty minutes. {b.formal} is on the rota this "
          "{day}; {b.s} is very patient, and {a.s} can bring the laptop along."),
-        ("My {a.kin} would like to learn video calls so {a.s} can see {a.p} grandchildren. "
-         "Is there anyone who could show {a.o}?",
+        ("My {a.kin} would like to learn to make online calls so {a.s} can see {a.p} "
+         "grandchildren. Is there anyone who could show {a.o}?",
          "Yes. {b.name} helps with exactly that on {day} mornings; {b.s} set up calls for "
          "three grandparents last month, so {a.s} will be in good hands."),
     ])
@@ -356,7 +356,7 @@ def chat_bookclub(c):
     b = c.person(job=JOBS)
     m = qa(c, [
         ("Is the book club still meeting on {day}s? My {a.kin} read the memoir you chose and "
-         "wants to talk about it.",
+         "wants to discuss it.",
          "It is. This month it's the memoir of a retired {b.job} who spent {b.p} career in "
          "the valley. {a.S} would be very welcome, and nobody minds if {a.s} hasn't "
          "finished."),
@@ -513,7 +513,7 @@ def chat_tandem(c):
              "Yes. {b.name} pilots the tandem most weekends and {b.s} is happy to take a new "
              "stoker. {a.S} should come to a short practice session first.",
              "Certainly. The tandem lives in the library garage, and {b.formal} captains it; "
-             "{b.s} will talk {a.o} through starting and stopping before the ride.",
+             "{b.s} will walk {a.o} through starting and stopping before the ride.",
          ]))]
     return [(r, c.f(t, a=a, b=b)) for r, t in m]
 
@@ -621,7 +621,7 @@ def notice_committee(c):
 def notice_speaker(c):
     a = c.person(job=JOBS)
     t = c.pick([
-        "On {day} at {time} the library welcomes {a.full}, a retired {a.job}, who will talk "
+        "On {day} at {time} the library welcomes {a.full}, a retired {a.job}, who will speak "
         "about {a.p} years in the valley. {a.S} will sign copies of {a.p} book afterwards.",
         "Author visit: {a.formal}, a former {a.job}, reads from {a.p} new memoir at "
         "{branch} on {day}. Tickets are free; ask {a.o} anything in the question session.",
