@@ -33,7 +33,14 @@ class Tokenizer {
   Tokenizer& operator=(const Tokenizer&) = delete;
 
   // Replaces `out` with the tokens of `text` (valid UTF-8), in order, tiling the text.
+  // Runs of ASCII take the fast path; stretches holding other bytes go through ICU.
+  // Ill-formed UTF-8 still yields tiling tokens (ICU reads bad bytes as U+FFFD).
+  // Offsets are 32-bit: `text` must be shorter than 2 GiB.
   void tokenize(std::string_view text, std::vector<Token>& out);
+
+  // Same contract as tokenize(), but every byte goes through ICU (no fast path). This is
+  // the reference the fast path is tested against; slower, otherwise interchangeable.
+  void tokenize_icu(std::string_view text, std::vector<Token>& out);
 
  private:
   struct Impl;

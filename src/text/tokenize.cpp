@@ -1,0 +1,236 @@
+#include "text/tokenize.h"
+
+#include <unicode/brkiter.h>
+#include <unicode/locid.h>
+#include <unicode/ubrk.h>
+#include <unicode/uchar.h>
+#include <unicode/utext.h>
+
+#include <array>
+#include <cstring>
+
+#include "text/utf8.h"
+
+namespace evenhand::text {
+
+namespace {
+
+// Word_Break classes that occur in ASCII (UAX #29, table 3 of the annex; ICU's word rules).
+// In ASCII there are no Extend, Format, ZWJ, Regional_Indicator or Hebrew_Letter
+// characters, so Single_Quote (') acts exactly like MidNumLet and Double_Quote like Other.
+enum Cls : uint8_t {
+  kOther,
+  kCR,
+  kLF,
+  kNewline,    // U+000B, U+000C
+  kWSegSpace,  // U+0020
+  kLetter,     // ALetter: A-Z a-z (and '@' in ICU 72, see probe_tailoring)
+  kDigit,      // Numeric: 0-9
+  kExtNumLet,  // ExtendNumLet: '_'
+  kMidLetter,  // MidLetter: ':' in UAX #29, but ICU's word rules take it out
+  kMidNumLet,  // MidNumLet '.' and Single_Quote '\''
+  kMidNum,     // MidNum: ',' ';'
+};
+
+using ClassTable = std::array<uint8_t, 128>;
+
+ClassTable base_table() {
+  ClassTable t{};
+  t.fill(kOther);
+  t['\r'] = kCR;
+  t['\n'] = kLF;
+  t['\v'] = kNewline;
+  t['\f'] = kNewline;
+  t[' '] = kWSegSpace;
+  for (int c = 'a'; c <= 'z'; ++c) t[c] = kLetter;
+  for (int c = 'A'; c <= 'Z'; ++c) t[c] = kLetter;
+  for (int c = '0'; c <= '9'; ++c) t[c] = kDigit;
+  t['_'] = kExtNumLet;
+  t[':'] = kMidLetter;
+  t['.'] = kMidNumLet;
+  t['\''] = kMidNumLet;
+  t[','] = kMidNum;
+  t[';'] = kMidNum;
+  return t;
+}
+
+inline bool ascii_space(unsigned char c) {
+  return c == ' ' || (c >= '\t' && c <= '\r');
+}
+
+// True if there is a word boundary at byte i (p[i-1] and p[i] both ASCII) that no rule can
+// look across: after ASCII white space and before an ASCII character. UAX #29 joins such a
+// pair only by WB3 (CR x LF) and WB3d (space x space); WB4 cannot apply because an ASCII
+// character is never Extend/Format/ZWJ, and no context rule (WB6/7, WB11/12, WB15/16)
+// reaches over white space. So text on either side can be segmented on its own.
+inline bool firm_boundary(const unsigned char* p, size_t i) {
+  unsigned char a = p[i - 1], c = p[i];
+  if (!ascii_space(a) || c >= 0x80) return false;
+  if (a == '\r' && c == '\n') return false;
+  if (a == ' ' && c == ' ') return false;
+  return true;
+}
+
+size_t find_non_ascii(const unsigned char* p, size_t from, size_t n) {
+  size_t i = from;
+  for (; i + 8 <= n; i += 8) {
+    uint64_t w;
+    std::memcpy(&w, p + i, 8);
+    if (w & 0x8080808080808080ULL) break;
+  }
+  for (; i < n; ++i)
+    if (p[i] >= 0x80) return i;
+  return n;
+}
+
+TokenKind kind_from_status(int32_t status, std::string_view seg) {
+  if (status >= UBRK_WORD_LETTER && status < UBRK_WORD_IDEO_LIMIT) return TokenKind::word;
+  if (status >= UBRK_WORD_NUMBER && status < UBRK_WORD_NUMBER_LIMIT) return TokenKind::number;
+  size_t i = 0;
+  while (i < seg.size())
+    if (!u_isUWhiteSpace(UChar32(decode_utf8(seg, i)))) return TokenKind::punct;
+  return seg.empty() ? TokenKind::punct : TokenKind::space;
+}
+
+}  // namespace
+
+struct Tokenizer::Impl {
+  std::unique_ptr<icu::BreakIterator> bi;  // null only if ICU has no word rules (no data)
+  UText ut = UTEXT_INITIALIZER;
+  ClassTable cls = base_table();
+
+  Impl() {
+    UErrorCode st = U_ZERO_ERROR;
+    bi.reset(icu::BreakIterator::createWordInstance(icu::Locale::getRoot(), st));
+    if (U_FAILURE(st)) bi.reset();
+    probe_tailoring();
+  }
+  ~Impl() { utext_close(&ut); }
+
+  // ICU tailors the UAX #29 classes of two ASCII characters, and the tailoring has changed
+  // between ICU releases: ':' is taken out of MidLetter, and ICU 72 counts '@' as ALetter
+  // (so e-mail addresses stay one word). Ask the linked ICU instead of hard-coding a version.
+  void probe_tailoring() {
+    if (!bi) return;
+    std::vector<Token> tmp;
+    for (char ch : {'@', ':'}) {
+      char joined[4] = {'a', ch, 'b', 0};
+      icu_chunk(std::string_view(joined, 3), 0, 3, tmp);
+      if (tmp.size() != 1) {
+        cls[uint8_t(ch)] = kOther;
+        continue;
+      }
+      icu_chunk(std::string_view(joined + 1, 1), 0, 1, tmp);
+      cls[uint8_t(ch)] = tmp.size() == 1 && tmp[0].kind == TokenKind::word ? kLetter : kMidLetter;
+    }
+  }
+
+  // Appends ICU's segments of text[b, e) (not cleared first when called from tokenize()).
+  void icu_append(std::string_view text, size_t b, size_t e, std::vector<Token>& out) {
+    if (b == e) return;
+    UErrorCode st = U_ZERO_ERROR;
+    if (bi) {
+      utext_openUTF8(&ut, text.data() + b, int64_t(e - b), &st);
+      bi->setText(&ut, st);
+    }
+    if (!bi || U_FAILURE(st)) {
+      // Without ICU's rules the best we can promise is tiling: one opaque token.
+      out.push_back(Token{uint32_t(b), uint32_t(e), TokenKind::punct});
+      return;
+    }
+    int32_t p = bi->first();
+    for (int32_t q = bi->next(); q != icu::BreakIterator::DONE; p = q, q = bi->next()) {
+      std::string_view seg = text.substr(b + size_t(p), size_t(q - p));
+      out.push_back(
+          Token{uint32_t(b + p), uint32_t(b + q), kind_from_status(bi->getRuleStatus(), seg)});
+    }
+  }
+
+  void icu_chunk(std::string_view text, size_t b, size_t e, std::vector<Token>& out) {
+    out.clear();
+    icu_append(text, b, e, out);
+  }
+
+  // UAX #29 restricted to ASCII (see Cls), segmenting text[b, e) as if it stood alone.
+  void ascii_append(std::string_view text, size_t b, size_t e, std::vector<Token>& out) const {
+    const auto* p = reinterpret_cast<const unsigned char*>(text.data());
+    // Class of byte i, or kOther outside [b, e) (i - 2 may wrap around: still outside).
+    auto c = [&](size_t i) -> uint8_t { return i >= b && i < e ? cls[p[i]] : uint8_t(kOther); };
+    size_t start = b;
+    for (size_t i = b + 1; i <= e; ++i) {
+      if (i < e && !breaks_at(c(i - 2), c(i - 1), c(i), c(i + 1))) continue;
+      out.push_back(Token{uint32_t(start), uint32_t(i), ascii_kind(p, start, i)});
+      start = i;
+    }
+  }
+
+  // Whether UAX #29 puts a boundary between classes a and c, with x before a and d after c
+  // (kOther at either end of the text).
+  static bool breaks_at(uint8_t x, uint8_t a, uint8_t c, uint8_t d) {
+    if (a == kCR && c == kLF) return false;                  // WB3
+    if (a == kCR || a == kLF || a == kNewline) return true;  // WB3a
+    if (c == kCR || c == kLF || c == kNewline) return true;  // WB3b
+    if (a == kWSegSpace && c == kWSegSpace) return false;    // WB3d
+    if (a == kLetter && c == kLetter) return false;          // WB5
+    bool c_mid_letter = c == kMidLetter || c == kMidNumLet;
+    bool a_mid_letter = a == kMidLetter || a == kMidNumLet;
+    if (a == kLetter && c_mid_letter && d == kLetter) return false;  // WB6
+    if (x == kLetter && a_mid_letter && c == kLetter) return false;  // WB7
+    if (a == kDigit && c == kDigit) return false;                    // WB8
+    if (a == kLetter && c == kDigit) return false;                   // WB9
+    if (a == kDigit && c == kLetter) return false;                   // WB10
+    bool a_mid_num = a == kMidNum || a == kMidNumLet;
+    bool c_mid_num = c == kMidNum || c == kMidNumLet;
+    if (x == kDigit && a_mid_num && c == kDigit) return false;                              // WB11
+    if (a == kDigit && c_mid_num && d == kDigit) return false;                              // WB12
+    if ((a == kLetter || a == kDigit || a == kExtNumLet) && c == kExtNumLet) return false;  // WB13a
+    if (a == kExtNumLet && (c == kLetter || c == kDigit)) return false;                     // WB13b
+    return true;                                                                            // WB999
+  }
+
+  // The kind ICU's rule status gives an ASCII segment. ICU's word rules tag each joining
+  // pair and the segment keeps the tag of its last pair: ending in a letter -> letter ("1a"),
+  // in a digit -> number ("a1", "1.5"), in '_' -> number after a digit ("1_") and letter
+  // otherwise ("a_", "0__"); a lone "_" has no status. White space runs are space; anything
+  // else is a single punct byte.
+  TokenKind ascii_kind(const unsigned char* p, size_t b, size_t e) const {
+    uint8_t last = cls[p[e - 1]];
+    if (last == kLetter) return TokenKind::word;
+    if (last == kDigit) return TokenKind::number;
+    if (last == kExtNumLet) {
+      if (e - b == 1) return TokenKind::punct;
+      return cls[p[e - 2]] == kDigit ? TokenKind::number : TokenKind::word;
+    }
+    return ascii_space(p[b]) ? TokenKind::space : TokenKind::punct;
+  }
+};
+
+Tokenizer::Tokenizer() : impl_(std::make_unique<Impl>()) {}
+Tokenizer::~Tokenizer() = default;
+
+void Tokenizer::tokenize(std::string_view text, std::vector<Token>& out) {
+  out.clear();
+  const auto* p = reinterpret_cast<const unsigned char*>(text.data());
+  size_t n = text.size(), pos = 0;
+  // Invariant: pos is 0 or a firm boundary, so each stretch can be segmented on its own.
+  while (pos < n) {
+    size_t q = find_non_ascii(p, pos, n);
+    if (q == n) {
+      impl_->ascii_append(text, pos, n, out);
+      break;
+    }
+    size_t b = q;
+    while (b > pos && !firm_boundary(p, b)) --b;
+    size_t e = q + 1;
+    while (e < n && !firm_boundary(p, e)) ++e;
+    impl_->ascii_append(text, pos, b, out);
+    impl_->icu_append(text, b, e, out);
+    pos = e;
+  }
+}
+
+void Tokenizer::tokenize_icu(std::string_view text, std::vector<Token>& out) {
+  impl_->icu_chunk(text, 0, text.size(), out);
+}
+
+}  // namespace evenhand::text
