@@ -21,7 +21,9 @@ The method (also written into the output header):
      optionally several such parts joined by hyphens) are left out: they are typing errors
      in the source list (e.g. "ErvIn").
   2. Names found in both lists (compared case-insensitively) are left out: the engine leaves
-     them alone, since their group cannot be told from the name.
+     them alone, since their group cannot be told from the name. Names that are also a form
+     of the pack's [sets] (the other *.txt files of rules/en-gender, e.g. "Guy", "King") are
+     left out too: a word is either a set form or a name. Re-run after editing [sets].
   3. Names that the SSA counts give mostly to the other sex are left out too: a name is kept
      only if at least MIN_SHARE (default 0.9) of its SSA births, summed over all years, are
      of its list's sex. Names absent from the SSA files are kept (no evidence either way).
@@ -84,6 +86,31 @@ def read_name_list(node_modules, pkg):
     if not isinstance(names, list) or not all(isinstance(n, str) for n in names):
         raise BuildError(f"{pkg}: data/names.json is not a list of strings")
     return meta, data, names
+
+
+def read_set_forms(pack_dir, names_file):
+    """Lower-cased forms of every [sets] line of the pack's *.txt files other than names_file."""
+    forms = set()
+    for fn in sorted(os.listdir(pack_dir)):
+        if not fn.endswith(".txt") or fn == names_file:
+            continue
+        section = None
+        with open(os.path.join(pack_dir, fn), encoding="utf-8") as f:
+            for line in f:
+                line = line.split("#", 1)[0].strip()
+                if not line:
+                    continue
+                if line.startswith("["):
+                    section = line.strip("[]").split()[0] if line.strip("[]").split() else ""
+                    continue
+                if section != "sets":
+                    continue
+                for form in line.split("|"):
+                    words = [w for w in form.split() if not w.startswith("@")]
+                    form = " ".join(words).lower()
+                    if form and form != "-":
+                        forms.add(form)
+    return forms
 
 
 def read_ssa_counts(ssa_dir):
@@ -196,6 +223,12 @@ def build(args):
     female = [n for n in female if n.lower() not in mfold]
     male = [n for n in male if n.lower() not in ffold]
 
+    # 2b. Names that are also a form of the pack's [sets].
+    set_forms = read_set_forms(os.path.dirname(args.out), os.path.basename(args.out))
+    as_forms = sorted(n for n in female + male if n.lower() in set_forms)
+    female = [n for n in female if n.lower() not in set_forms]
+    male = [n for n in male if n.lower() not in set_forms]
+
     # 3. Names the SSA counts give mostly to the other sex.
     def own(n, sex):
         return counts.get((n.lower(), sex), 0)
@@ -258,6 +291,9 @@ def build(args):
         out.extend(para("- " + n))
     w(f"# - Names in both lists (compared case-insensitively) are left out: {len(both)} names,")
     w("#   listed at the end. The engine leaves such names alone.")
+    w("# - Names that are also a form of the pack's [sets] (a word is either a set form or a")
+    w(f"#   name) are left out: {len(as_forms)} names, listed at the end. Re-run this script")
+    w("#   after editing the pack's [sets].")
     w(f"# - Names with SSA births of which less than {args.min_share:g} are of the list's sex")
     w(f"#   are left out: {len(mostly_other)} names, listed at the end. Names absent from the")
     w("#   SSA files are kept.")
@@ -287,6 +323,8 @@ def build(args):
     w("")
     w(f"# Left out, in both lists ({len(both)}):")
     out.extend(wrap(both_written))
+    w(f"# Left out, also a form of the pack's [sets] ({len(as_forms)}):")
+    out.extend(wrap(as_forms))
     for sex, label in (("F", "female"), ("M", "male")):
         items = sorted((n, o, t) for s, n, o, t in mostly_other if s == sex)
         w(f"# Left out, {label} list, less than {args.min_share:g} of SSA births {label} "
