@@ -38,7 +38,7 @@ enum class UnpairedReason {
   in_several_lists,  // the name (case-folded) occurs in more than one group's list
   surplus,           // ranked below the length of the shortest list
 };
-// "in several lists" / "surplus".
+// Returns the reason as words for messages: "in several lists" or "surplus".
 const char* unpaired_reason_name(UnpairedReason r);
 
 // A name that got no partner.
@@ -51,6 +51,7 @@ struct UnpairedName {
   SourceRef where;
 };
 
+// What pair_names_by_rank returns: the pairs and every name left without a partner.
 struct RankPairing {
   std::vector<std::string> groups;     // the group names, in list order
   std::vector<RankedPair> pairs;       // by rank, best first
