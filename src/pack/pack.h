@@ -18,16 +18,19 @@
 namespace evenhand::pack {
 
 // Where an entry was written, for the audit log and for check messages ("words.txt:12").
+// Line 0 means the file as a whole (for example a header field that is missing).
 struct SourceRef {
   std::string file;  // file name inside the pack, e.g. "words.txt"
   uint32_t line = 0;
-  std::string str() const { return file + ":" + std::to_string(line); }
+  // "words.txt:12", or just "pack.txt" when line is 0.
+  std::string str() const { return line ? file + ":" + std::to_string(line) : file; }
 };
 
 // One problem found while reading or checking a pack.
 struct Diagnostic {
   SourceRef where;
   std::string message;  // e.g. "'her' has two counterparts in group male ('him', 'his') and no tag"
+  std::string code;  // stable kind of problem, e.g. "form-ambiguous" (rules/README.md lists them)
 };
 
 // Slot or part-of-speech tags that choose between several counterparts of one form.
@@ -80,7 +83,8 @@ class CompiledPack {
   const std::vector<std::string>& groups() const { return groups_; }
   // Index of a group by name, or nullopt.
   std::optional<uint16_t> group_index(std::string_view name) const;
-  // Hex SHA-256 over the pack's files (name and bytes of each, in sorted name order).
+  // Hex SHA-256 over all the pack's files in sorted name order: for each, its name, a NUL
+  // byte, its bytes, a NUL byte.
   const std::string& sha256() const { return sha256_; }
 
   const std::vector<WordSet>& sets() const { return sets_; }
@@ -97,6 +101,12 @@ class CompiledPack {
   // The most words any entry has (for multiword matching windows).
   size_t max_entry_words() const { return max_words_; }
 
+  // The bytes of the pack's file `name`: any file of the pack folder, the *.txt files that
+  // were parsed as well as data files such as "possessive.model". Null when there is none.
+  const std::string* file(std::string_view name) const;
+  // Names of all the pack's files, sorted (the order the hash covers them in).
+  std::vector<std::string> file_names() const;
+
  private:
   friend class PackBuilder;
   CompiledPack() = default;
@@ -109,14 +119,29 @@ class CompiledPack {
   std::vector<std::pair<std::string, std::string>> meta_;
   std::unordered_map<std::string, std::vector<LexEntry>> index_;
   size_t max_words_ = 1;
+  std::map<std::string, std::string, std::less<>> files_;
 };
+
+// Folds one token (a word, or a hyphen or apostrophe token) the way the lexicon's keys are
+// folded: Unicode full case folding, then U+2019 RIGHT SINGLE QUOTATION MARK replaced by "'",
+// so that curly and straight apostrophes find the same entry. Returns the folded token.
+std::string fold_word(std::string_view token);
+
+// Splits a form as written in a pack ("step-mother", "best man", "grandmothers'") into the
+// tokens a UAX #29 word segmenter produces for it, leaving out spaces: hyphens are tokens of
+// their own; an apostrophe between two letters stays inside its word ("mother's"), any other
+// apostrophe is a token of its own ("grandmothers", "'"). Returns the tokens unfolded.
+std::vector<std::string> form_tokens(std::string_view form);
 
 // Reads and checks a pack. `diagnostics` receives every problem found (not only the first);
 // the result is an Error (kind pack, naming the first problem) when there is any.
-// Loads a pack from a directory on disk.
+// Loads a pack from a directory on disk: every regular file directly inside it, except names
+// starting with '.' or ending in '~' (hidden and editor backup files).
 Result<std::shared_ptr<const CompiledPack>> load_pack_dir(const std::string& dir,
                                                           std::vector<Diagnostic>& diagnostics);
 // Loads a pack from in-memory files (name -> bytes), e.g. the packs built into the binary.
+// Files whose name ends in ".txt" are parsed; the others are data files, kept as they are
+// (CompiledPack::file) and covered by the hash.
 Result<std::shared_ptr<const CompiledPack>> load_pack_files(
     const std::string& label, const std::map<std::string, std::string>& files,
     std::vector<Diagnostic>& diagnostics);
@@ -126,7 +151,8 @@ std::vector<std::string> builtin_pack_names();
 // The files of a built-in pack, or nullopt.
 std::optional<std::map<std::string, std::string>> builtin_pack_files(std::string_view name);
 
-// Resolves a --pack argument: a built-in name, or else a directory path.
+// Resolves a --pack argument: a built-in name, or else a directory path. An argument that is
+// neither is an Error of kind usage; a broken pack is an Error of kind pack.
 Result<std::shared_ptr<const CompiledPack>> load_pack(const std::string& name_or_dir,
                                                       std::vector<Diagnostic>& diagnostics);
 
