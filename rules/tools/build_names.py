@@ -65,6 +65,11 @@ class BuildError(Exception):
     pass
 
 
+CALENDAR_WORDS = frozenset(
+    "january february march april may june july august september october november december "
+    "monday tuesday wednesday thursday friday saturday sunday".split())
+
+
 def read_json(path):
     try:
         with open(path, encoding="utf-8") as f:
@@ -229,6 +234,12 @@ def build(args):
     female = [n for n in female if n.lower() not in set_forms]
     male = [n for n in male if n.lower() not in set_forms]
 
+    # 2c. Calendar words: hunspell writes month and weekday names capitalised, like first
+    # names, so the ~word test cannot see that "June" or "Tuesday" is usually a date.
+    calendar = sorted(n for n in female + male if n.lower() in CALENDAR_WORDS)
+    female = [n for n in female if n.lower() not in CALENDAR_WORDS]
+    male = [n for n in male if n.lower() not in CALENDAR_WORDS]
+
     # 3. Names the SSA counts give mostly to the other sex.
     def own(n, sex):
         return counts.get((n.lower(), sex), 0)
@@ -294,6 +305,8 @@ def build(args):
     w("# - Names that are also a form of the pack's [sets] (a word is either a set form or a")
     w(f"#   name) are left out: {len(as_forms)} names, listed at the end. Re-run this script")
     w("#   after editing the pack's [sets].")
+    w(f"# - Month and weekday names are left out (common practice: in running text they are")
+    w(f"#   dates far more often than names): {len(calendar)} names, listed at the end.")
     w(f"# - Names with SSA births of which less than {args.min_share:g} are of the list's sex")
     w(f"#   are left out: {len(mostly_other)} names, listed at the end. Names absent from the")
     w("#   SSA files are kept.")
@@ -325,6 +338,8 @@ def build(args):
     out.extend(wrap(both_written))
     w(f"# Left out, also a form of the pack's [sets] ({len(as_forms)}):")
     out.extend(wrap(as_forms))
+    w(f"# Left out, month and weekday names ({len(calendar)}):")
+    out.extend(wrap(calendar))
     for sex, label in (("F", "female"), ("M", "male")):
         items = sorted((n, o, t) for s, n, o, t in mostly_other if s == sex)
         w(f"# Left out, {label} list, less than {args.min_share:g} of SSA births {label} "

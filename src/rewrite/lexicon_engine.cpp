@@ -1,0 +1,420 @@
+// The pack-driven rewrite engine (see engine.h). Matching works on UAX #29 tokens: every
+// non-space token is case-folded with pack::fold_word, and the compiled lexicon is looked up
+// by the first folded word, longest entry first. Details that the README documents:
+// - A trailing clitic ('s 'd 'll 're 've 'm, straight or curly) on the last word of a match
+//   is kept as written, so "mother's" and "Emily’s" need no entries of their own.
+// - Names are swapped only when written with an upper-case first letter; names that are
+//   also common words (~word in the pack) additionally not at the start of a sentence.
+// - A form with several counterparts (her -> his/him, his -> her/hers) is decided by the
+//   pack's possessive model when it has one, else the pack's first entry wins and the
+//   decision is counted as ambiguous.
+// - Mentions inside protected spans are neither counted nor edited.
+#include <algorithm>
+#include <cstring>
+#include <unordered_map>
+
+#include "pack/pack.h"
+#include "rewrite/engine.h"
+#include "rewrite/possessive.h"
+#include "text/case.h"
+#include "text/protect.h"
+#include "text/tokenize.h"
+
+namespace evenhand::rewrite {
+
+namespace {
+
+constexpr const char* kPossessiveModelFile = "possessive.model";
+// A context decision whose margin is below this is counted as ambiguous (it is still made).
+constexpr float kLowMargin = 1.0f;
+
+const char* const kClitics[] = {"'s", "'d", "'ll", "'re", "'ve", "'m"};
+// Titles after which a capitalised name is a surname ("Ms Radcliffe"), folded; English
+// forms of address (common practice).
+const char* const kTitles[] = {"mr", "mrs", "ms", "miss", "mx", "dr", "prof", "sir", "dame", "lady", "lord"};
+
+// Folded phrases (guards, protected expressions) indexed by their first token.
+struct PhraseIndex {
+  struct Phrase {
+    std::vector<std::string> tokens;
+    uint32_t index = 0;  // into the pack's list
+  };
+  std::unordered_map<std::string, std::vector<Phrase>> by_first;
+
+  void add(std::string_view text, uint32_t index) {
+    Phrase p;
+    for (const auto& t : pack::form_tokens(text)) p.tokens.push_back(pack::fold_word(t));
+    if (p.tokens.empty()) return;
+    p.index = index;
+    auto& v = by_first[p.tokens.front()];
+    v.push_back(std::move(p));
+    std::stable_sort(v.begin(), v.end(), [](const Phrase& a, const Phrase& b) {
+      return a.tokens.size() > b.tokens.size();
+    });
+  }
+};
+
+class LexiconEngine;
+
+class LexiconWorker final : public Worker {
+ public:
+  explicit LexiconWorker(const LexiconEngine& e) : e_(e) {}
+  void rewrite(std::span<const std::string_view> fields, RecordResult& out) override;
+
+ private:
+  struct Item {
+    uint32_t begin = 0, end = 0;     // bytes in the field
+    uint32_t fold_off = 0, fold_len = 0;
+    text::TokenKind kind = text::TokenKind::punct;
+  };
+  void prepare_field(std::string_view field);
+  std::string_view folded(size_t k) const {
+    return std::string_view(fold_.data() + items_[k].fold_off, items_[k].fold_len);
+  }
+  // Length in items of a match of `words` at item k (0 if none); `clitic` gets the bytes of
+  // a clitic left on the last word.
+  size_t match_at(size_t k, const std::vector<std::string>& words, uint32_t& clitic) const;
+  bool phrase_at(const PhraseIndex& idx, size_t k, const PhraseIndex::Phrase** hit,
+                 size_t* len) const;
+  bool sentence_start(size_t k) const;
+  // True when the name at item k follows a title or another first name (so is a surname).
+  bool surname_position(size_t k) const;
+  bool is_protected(uint32_t begin, uint32_t end) const;
+  void field_matches(uint32_t field, std::string_view text, RecordResult& out, bool guarded);
+
+  const LexiconEngine& e_;
+  text::Tokenizer tokenizer_;
+  std::vector<text::Token> tokens_;
+  std::vector<Item> items_;
+  std::string fold_;
+  std::vector<text::Span> spans_;
+  std::vector<std::string_view> words_;  // folded items for the possessive model
+  std::string scratch_;
+};
+
+class LexiconEngine final : public Engine {
+ public:
+  LexiconEngine(std::shared_ptr<const pack::CompiledPack> p, std::unique_ptr<text::ProtectedSpans> ps,
+                std::shared_ptr<const PossessiveModel> model, const EngineOptions& o)
+      : pack_(std::move(p)), protect_(std::move(ps)), model_(std::move(model)), options_(o) {
+    const auto& groups = pack_->groups();
+    target_.resize(groups.size());
+    for (uint16_t g = 0; g < groups.size(); ++g) {
+      if (o.toward) {
+        target_[g] = *o.toward;
+      } else if (g < 2) {
+        target_[g] = static_cast<uint16_t>(1 - g);  // the first two groups swap
+      } else {
+        target_[g] = g;  // further groups (e.g. neutral) stay as they are
+      }
+    }
+    for (uint32_t i = 0; i < pack_->guards().size(); ++i) guards_.add(pack_->guards()[i].phrase, i);
+    for (uint32_t i = 0; i < pack_->protected_phrases().size(); ++i)
+      protected_.add(pack_->protected_phrases()[i], i);
+  }
+  const pack::CompiledPack* pack() const override { return pack_.get(); }
+  std::unique_ptr<Worker> make_worker() const override {
+    return std::make_unique<LexiconWorker>(*this);
+  }
+
+  std::shared_ptr<const pack::CompiledPack> pack_;
+  std::unique_ptr<text::ProtectedSpans> protect_;
+  std::shared_ptr<const PossessiveModel> model_;
+  EngineOptions options_;
+  std::vector<uint16_t> target_;
+  PhraseIndex guards_;
+  PhraseIndex protected_;
+};
+
+bool is_ascii(std::string_view s) {
+  for (unsigned char c : s)
+    if (c >= 0x80) return false;
+  return true;
+}
+
+void LexiconWorker::prepare_field(std::string_view field) {
+  tokenizer_.tokenize(field, tokens_);
+  items_.clear();
+  fold_.clear();
+  words_.clear();
+  for (const auto& t : tokens_) {
+    if (t.kind == text::TokenKind::space) continue;
+    Item it;
+    it.begin = t.begin;
+    it.end = t.end;
+    it.kind = t.kind;
+    it.fold_off = static_cast<uint32_t>(fold_.size());
+    std::string_view s = field.substr(t.begin, t.end - t.begin);
+    if (is_ascii(s)) {
+      for (char c : s) fold_ += (c >= 'A' && c <= 'Z') ? static_cast<char>(c + 32) : c;
+    } else {
+      fold_ += pack::fold_word(s);
+    }
+    it.fold_len = static_cast<uint32_t>(fold_.size() - it.fold_off);
+    items_.push_back(it);
+  }
+  spans_.clear();
+  if (e_.protect_) e_.protect_->find(field, spans_);
+  // The pack's protected expressions, matched on folded tokens.
+  bool added = false;
+  for (size_t k = 0; k < items_.size(); ++k) {
+    const PhraseIndex::Phrase* hit;
+    size_t len;
+    if (phrase_at(e_.protected_, k, &hit, &len)) {
+      spans_.push_back({items_[k].begin, items_[k + len - 1].end, text::pack_phrase});
+      added = true;
+      k += len - 1;
+    }
+  }
+  if (added) {
+    std::sort(spans_.begin(), spans_.end(),
+              [](const text::Span& a, const text::Span& b) { return a.begin < b.begin; });
+  }
+}
+
+bool LexiconWorker::phrase_at(const PhraseIndex& idx, size_t k, const PhraseIndex::Phrase** hit,
+                              size_t* len) const {
+  if (idx.by_first.empty()) return false;
+  auto it = idx.by_first.find(std::string(folded(k)));
+  if (it == idx.by_first.end()) return false;
+  for (const auto& p : it->second) {
+    if (k + p.tokens.size() > items_.size()) continue;
+    bool ok = true;
+    for (size_t j = 1; j < p.tokens.size() && ok; ++j) ok = folded(k + j) == p.tokens[j];
+    if (ok) {
+      *hit = &p;
+      *len = p.tokens.size();
+      return true;
+    }
+  }
+  return false;
+}
+
+size_t LexiconWorker::match_at(size_t k, const std::vector<std::string>& words,
+                               uint32_t& clitic) const {
+  clitic = 0;
+  if (k + words.size() > items_.size()) return 0;
+  for (size_t j = 0; j < words.size(); ++j) {
+    std::string_view f = folded(k + j);
+    if (f == words[j]) continue;
+    if (j + 1 != words.size() || f.size() <= words[j].size() ||
+        f.compare(0, words[j].size(), words[j]) != 0)
+      return 0;
+    std::string_view rest = f.substr(words[j].size());
+    bool is_clitic = false;
+    for (const char* c : kClitics) is_clitic = is_clitic || rest == c;
+    if (!is_clitic) return 0;
+    // Bytes of the clitic as written (a curly apostrophe is three bytes, folded to one).
+    const Item& it = items_[k + j];
+    uint32_t written = it.end - it.begin;
+    uint32_t folded_extra = static_cast<uint32_t>(f.size() - words[j].size());
+    clitic = folded_extra + (written > it.fold_len ? written - it.fold_len : 0);
+  }
+  return words.size();
+}
+
+bool LexiconWorker::sentence_start(size_t k) const {
+  if (k == 0) return true;
+  std::string_view prev = folded(k - 1);
+  return prev == "." || prev == "!" || prev == "?" || prev == "\"" || prev == ":" ||
+         prev == "\xE2\x80\x9C";  // left double quotation mark
+}
+
+bool LexiconWorker::surname_position(size_t k) const {
+  if (k == 0) return false;
+  size_t p = k - 1;
+  if (folded(p) == "." && p > 0) --p;
+  std::string_view prev = folded(p);
+  for (const char* t : kTitles)
+    if (prev == t) return true;
+  // "Matthew Tanner": a capitalised first name right before makes this one a surname.
+  if (p + 1 == k && items_[p].kind == text::TokenKind::word && items_[p].end + 1 == items_[k].begin) {
+    if (const auto* entries = e_.pack_->lookup(prev)) {
+      for (const auto& en : *entries)
+        if (en.is_name && en.words.size() == 1) return true;
+    }
+  }
+  return false;
+}
+
+bool LexiconWorker::is_protected(uint32_t begin, uint32_t end) const {
+  for (const auto& s : spans_) {
+    if (s.begin >= end) break;
+    if (s.end > begin) return true;
+  }
+  return false;
+}
+
+void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordResult& out,
+                                  bool guarded) {
+  const pack::CompiledPack& pk = *e_.pack_;
+  for (size_t k = 0; k < items_.size(); ++k) {
+    if (items_[k].kind != text::TokenKind::word) continue;
+    const auto* entries = pk.lookup(folded(k));
+    if (entries == nullptr) {
+      // Try the word without a trailing clitic ("mother's" -> "mother").
+      std::string_view f = folded(k);
+      size_t apos = f.rfind('\'');
+      if (apos == std::string_view::npos || apos == 0) continue;
+      entries = pk.lookup(f.substr(0, apos));
+      if (entries == nullptr) continue;
+    }
+    // The longest entry that matches here, and every entry with the same words.
+    const pack::LexEntry* first = nullptr;
+    size_t len = 0;
+    uint32_t clitic = 0;
+    std::vector<const pack::LexEntry*> cands;
+    for (const auto& en : *entries) {
+      if (first && en.words.size() < len) break;
+      uint32_t c;
+      size_t l = match_at(k, en.words, c);
+      if (l == 0) continue;
+      if (!first) {
+        first = &en;
+        len = l;
+        clitic = c;
+      }
+      if (en.words == first->words) cands.push_back(&en);
+    }
+    if (!first) continue;
+    uint32_t begin = items_[k].begin;
+    uint32_t end = items_[k + len - 1].end - clitic;
+    size_t next = k + len - 1;
+    if (is_protected(begin, end)) {
+      ++out.protected_spans;
+      k = next;
+      continue;
+    }
+    std::string_view original = text.substr(begin, end - begin);
+    text::CasePattern pattern = text::case_pattern(original);
+    if (first->is_name) {
+      bool capital = pattern == text::CasePattern::title || pattern == text::CasePattern::upper ||
+                     (pattern == text::CasePattern::mixed && original[0] >= 'A' && original[0] <= 'Z');
+      if (!capital) continue;
+      if (pk.names()[first->set].word_like && sentence_start(k)) continue;
+      if (surname_position(k)) continue;
+    }
+    uint16_t g = first->group;
+    bool one_group = true;
+    for (const auto* c : cands) one_group = one_group && c->group == g;
+    if (!one_group) {
+      ++out.ambiguous;
+      k = next;
+      continue;
+    }
+    ++out.before[g];
+    uint16_t t = e_.target_[g];
+    auto form_of = [&](const pack::LexEntry* en) -> const std::string& {
+      return en->is_name ? pk.names()[en->set].names[t] : pk.sets()[en->set].forms[t];
+    };
+    const pack::LexEntry* chosen = cands.front();
+    EditReason reason = first->is_name ? EditReason::name : EditReason::lexicon;
+    float score = 0;
+    bool differ = false;
+    for (const auto* c : cands) differ = differ || form_of(c) != form_of(chosen);
+    if (differ && !guarded && t != g) {
+      reason = EditReason::context;
+      bool decided = false;
+      if (e_.model_) {
+        if (words_.empty()) {
+          words_.reserve(items_.size());
+          for (size_t j = 0; j < items_.size(); ++j) words_.push_back(folded(j));
+        }
+        Decision d = e_.model_->decide(words_, k);
+        pack::Tag want = d.kind == Decision::determiner ? pack::Tag::det
+                         : d.kind == Decision::object   ? pack::Tag::obj
+                                                        : pack::Tag::poss;
+        for (const auto* c : cands) {
+          if (c->tag == want) {
+            chosen = c;
+            decided = true;
+            score = d.score;
+            break;
+          }
+        }
+      }
+      if (!decided || score < kLowMargin) ++out.ambiguous;
+    }
+    const std::string& replacement = form_of(chosen);
+    if (guarded || t == g || replacement.empty()) {
+      ++out.after[g];
+      k = next;
+      continue;
+    }
+    ++out.after[t];
+    Edit ed;
+    ed.field = field;
+    ed.begin = begin;
+    ed.end = end;
+    scratch_.clear();
+    text::apply_case(replacement, pattern, scratch_);
+    // Keep the writer's apostrophe style.
+    if (original.find("\xE2\x80\x99") != std::string_view::npos) {
+      std::string curly;
+      for (char c : scratch_) {
+        if (c == '\'') curly += "\xE2\x80\x99";
+        else curly += c;
+      }
+      scratch_ = std::move(curly);
+    }
+    ed.replacement = scratch_;
+    ed.reason = reason;
+    ed.score = score;
+    uint32_t hit = chosen->is_name ? static_cast<uint32_t>(pk.sets().size() + chosen->set)
+                                   : chosen->set;
+    ed.rule = chosen->is_name ? &pk.names()[chosen->set].where : &pk.sets()[chosen->set].where;
+    if (ed.replacement != original) {
+      out.edits.push_back(std::move(ed));
+      out.entry_hits.push_back(hit);
+    }
+    k = next;
+  }
+}
+
+void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResult& out) {
+  size_t n_groups = e_.pack_->groups().size();
+  out.clear();
+  out.before.assign(n_groups, 0);
+  out.after.assign(n_groups, 0);
+  // Guards first: a guard anywhere in the record blocks the whole record.
+  const pack::Guard* guard = nullptr;
+  if (!e_.guards_.by_first.empty()) {
+    for (size_t f = 0; f < fields.size() && !guard; ++f) {
+      prepare_field(fields[f]);
+      for (size_t k = 0; k < items_.size(); ++k) {
+        const PhraseIndex::Phrase* hit;
+        size_t len;
+        if (phrase_at(e_.guards_, k, &hit, &len)) {
+          guard = &e_.pack_->guards()[hit->index];
+          break;
+        }
+      }
+    }
+  }
+  out.guard = guard;
+  for (uint32_t f = 0; f < fields.size(); ++f) {
+    if (fields.size() > 1 || e_.guards_.by_first.empty() || guard) prepare_field(fields[f]);
+    field_matches(f, fields[f], out, guard != nullptr);
+  }
+}
+
+}  // namespace
+
+Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::CompiledPack> pack,
+                                            const EngineOptions& options) {
+  auto ps = text::ProtectedSpans::create(options.protect_patterns);
+  if (!ps.ok()) return std::move(ps).error();
+  if (options.toward && *options.toward >= pack->groups().size()) {
+    return make_error(ErrorKind::usage, "", "--toward names a group the pack does not have");
+  }
+  std::shared_ptr<const PossessiveModel> model;
+  if (const std::string* text = pack->file(kPossessiveModelFile)) {
+    auto m = PossessiveModel::parse(*text, pack->name() + "/" + kPossessiveModelFile);
+    if (!m.ok()) return std::move(m).error();
+    model = std::move(*m);
+  }
+  return std::unique_ptr<Engine>(
+      std::make_unique<LexiconEngine>(std::move(pack), std::move(*ps), std::move(model), options));
+}
+
+}  // namespace evenhand::rewrite
