@@ -18,9 +18,10 @@ const char* kUsageText =
     "Counterfactual data augmentation for training corpora.\n"
     "\n"
     "Commands:\n"
-    "  run      rewrite a corpus: augment, substitute or pass through (see run --help)\n"
-    "  check    validate a rule pack and report every problem with file:line\n"
-    "  packs    list the rule packs built into this binary\n"
+    "  run         rewrite a corpus: augment, substitute or pass through (see run --help)\n"
+    "  check       validate a rule pack and report every problem with file:line\n"
+    "  packs       list the rule packs built into this binary\n"
+    "  pair-names  pair first names of equal frequency rank into a pack's [names] section\n"
     "\n"
     "Options:\n"
     "  --help     show this help\n"
@@ -50,6 +51,7 @@ int main(int argc, char** argv) {
     if (cmd == "run") return run_command(rest, all);
     if (cmd == "check") return check_command(rest);
     if (cmd == "packs") return packs_command(rest);
+    if (cmd == "pair-names") return pair_names_command(rest);
     print_error("unknown command '" + cmd + "' (see 'evenhand --help')");
     return kUsage;
   } catch (const std::bad_alloc&) {

@@ -34,5 +34,6 @@ Status write_file_atomic(const std::string& path, const std::string& text);
 int run_command(const std::vector<std::string>& args, const std::vector<std::string>& argv_all);
 int check_command(const std::vector<std::string>& args);
 int packs_command(const std::vector<std::string>& args);
+int pair_names_command(const std::vector<std::string>& args);
 
 }  // namespace evenhand::cli
