@@ -29,9 +29,10 @@ constexpr const char* kPossessiveModelFile = "possessive.model";
 constexpr float kLowMargin = 1.0f;
 
 const char* const kClitics[] = {"'s", "'d", "'ll", "'re", "'ve", "'m"};
-// Titles after which a capitalised name is a surname ("Ms Radcliffe"), folded; English
-// forms of address (common practice).
-const char* const kTitles[] = {"mr", "mrs", "ms", "miss", "mx", "dr", "prof", "sir", "dame", "lady", "lord"};
+// Titles after which a capitalised name is a surname ("Ms Radcliffe", "Dr. Okafor"), folded;
+// English forms of address (common practice). "Sir" and "Dame" take first names, so they are
+// not listed.
+const char* const kTitles[] = {"mr", "mrs", "ms", "miss", "mx", "dr", "prof"};
 
 // Folded phrases (guards, protected expressions) indexed by their first token.
 struct PhraseIndex {

@@ -17,11 +17,7 @@ using evenhand::testing::write_file;
 
 namespace {
 
-std::string binary() {
-  const char* b = std::getenv("EVENHAND_BINARY");
-  REQUIRE(b != nullptr);
-  return b;
-}
+std::string binary() { return evenhand::testing::evenhand_binary(); }
 
 struct Ran {
   int code = -1;
@@ -51,7 +47,7 @@ constexpr int kUsage = 2, kInput = 3, kOutput = 4;
 
 }  // namespace
 
-TEST_CASE("--version and --help on every command") {
+TEST_CASE("version and help on every command") {
   TempDir d;
   auto v = run(d, "--version");
   REQUIRE(v.code == 0);

@@ -9,19 +9,10 @@ using evenhand::testing::read_file;
 using evenhand::testing::shell;
 using evenhand::testing::TempDir;
 
-namespace {
-
-std::string env(const char* name) {
-  const char* v = std::getenv(name);
-  REQUIRE(v != nullptr);
-  return v;
-}
-
-}  // namespace
 
 TEST_CASE("augment on the demo corpus: valid JSON, audit log replays, originals untouched") {
   TempDir d;
-  std::string src = env("EVENHAND_SOURCE_DIR"), bin = env("EVENHAND_BINARY");
+  std::string src = evenhand::testing::source_dir(), bin = evenhand::testing::evenhand_binary();
   std::string in = src + "/samples/helpdesk.jsonl";
   std::string fields = " --field /text --field '/messages/*/content'";
   REQUIRE(shell(bin + " run -q --pack en-gender --in " + in + fields + " --out " + d.file("out.jsonl") +
@@ -32,7 +23,7 @@ TEST_CASE("augment on the demo corpus: valid JSON, audit log replays, originals 
 
 TEST_CASE("substitute twice on the demo corpus gives back every one-to-one record") {
   TempDir d;
-  std::string src = env("EVENHAND_SOURCE_DIR"), bin = env("EVENHAND_BINARY");
+  std::string src = evenhand::testing::source_dir(), bin = evenhand::testing::evenhand_binary();
   std::string in = src + "/samples/helpdesk.jsonl";
   std::string fields = " --field /text --field '/messages/*/content'";
   std::string sub = bin + " run -q --pack en-gender --mode substitute --rate 1" + fields;
@@ -51,7 +42,7 @@ TEST_CASE("substitute twice on the demo corpus gives back every one-to-one recor
 
 TEST_CASE("output is identical for 1 and 4 threads on the demo corpus") {
   TempDir d;
-  std::string src = env("EVENHAND_SOURCE_DIR"), bin = env("EVENHAND_BINARY");
+  std::string src = evenhand::testing::source_dir(), bin = evenhand::testing::evenhand_binary();
   std::string base = bin + " run -q --pack en-gender --in " + src +
                      "/samples/helpdesk.jsonl --field /text --field '/messages/*/content'";
   REQUIRE(shell(base + " --threads 1 --out " + d.file("a.jsonl") + " --edits " + d.file("ea")) == 0);

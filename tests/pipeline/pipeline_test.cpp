@@ -52,7 +52,7 @@ class SwapEngine final : public rewrite::Engine {
   }
 };
 
-std::string corpus(int n) {
+std::string make_corpus(int n) {
   std::string s;
   for (int i = 0; i < n; ++i) {
     s += "{\"id\":" + std::to_string(i) + ",\"text\":\"record " + std::to_string(i);
@@ -75,7 +75,7 @@ pipeline::RunOptions base_options(const TempDir& d) {
 
 TEST_CASE("output bytes are identical for 1 and 4 threads") {
   TempDir d;
-  write_file(d.file("in.jsonl"), corpus(20000));
+  write_file(d.file("in.jsonl"), make_corpus(20000));
   SwapEngine engine;
   std::string outs[2], edits[2];
   for (int k = 0; k < 2; ++k) {
@@ -226,7 +226,7 @@ TEST_CASE("a bad record under fail leaves no output behind") {
 
 TEST_CASE("the audit log applied to the input gives the output") {
   TempDir d;
-  write_file(d.file("in.jsonl"), corpus(50));
+  write_file(d.file("in.jsonl"), make_corpus(50));
   SwapEngine engine;
   auto o = base_options(d);
   o.mode = pipeline::Mode::substitute;
@@ -308,7 +308,7 @@ TEST_CASE("several inputs are read in order and each is described") {
   REQUIRE(r->inputs.size() == 2);
   REQUIRE(r->inputs[0].records == 1);
   REQUIRE(r->inputs[1].records == 2);
-  REQUIRE(r->inputs[1].data_bytes == 30);
+  REQUIRE(r->inputs[1].data_bytes == 32);  // 15 + 17 bytes, terminators included
   REQUIRE(r->outputs.at(0).compression == "zstd");
   REQUIRE(evenhand::testing::shell("zstd -dc " + o.output + " > " + d.file("plain")) == 0);
   REQUIRE(read_file(d.file("plain")) == "{\"text\":\"one\"}\n{\"text\":\"two\"}\n{\"text\":\"three\"}\n");

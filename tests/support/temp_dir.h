@@ -43,6 +43,18 @@ inline std::string read_file(const std::string& path) {
   return ss.str();
 }
 
+// The evenhand binary under test ($EVENHAND_BINARY, else the one this build made).
+inline std::string evenhand_binary() {
+  const char* b = std::getenv("EVENHAND_BINARY");
+  return b ? b : EVENHAND_BINARY_PATH;
+}
+
+// The repository root ($EVENHAND_SOURCE_DIR, else the tree this build came from).
+inline std::string source_dir() {
+  const char* s = std::getenv("EVENHAND_SOURCE_DIR");
+  return s ? s : EVENHAND_SOURCE_PATH;
+}
+
 // Runs a shell command; returns its exit status (-1 if it could not run).
 inline int shell(const std::string& cmd) {
   int rc = std::system(cmd.c_str());
