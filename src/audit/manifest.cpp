@@ -31,8 +31,7 @@ void write_tally(JsonWriter& w, const GroupTally& t) {
 
 }  // namespace
 
-std::pair<std::string, std::string> describe_entry(const pack::CompiledPack& pack,
-                                                   uint32_t index) {
+std::pair<std::string, std::string> describe_entry(const pack::CompiledPack& pack, uint32_t index) {
   auto join = [](const std::vector<std::string>& forms) {
     std::string s;
     for (size_t i = 0; i < forms.size(); ++i) {
@@ -61,7 +60,13 @@ std::string render_manifest(const ManifestData& d) {
   JsonWriter w(out, 2);
   w.begin_object();
   w.key("schema").value(kManifestSchema);
-  w.key("tool").begin_object().key("name").value("evenhand").key("version").value(kVersion).end_object();
+  w.key("tool")
+      .begin_object()
+      .key("name")
+      .value("evenhand")
+      .key("version")
+      .value(kVersion)
+      .end_object();
   w.key("command_line").begin_array();
   for (const auto& a : d.command_line) w.value(a);
   w.end_array();
@@ -141,7 +146,14 @@ std::string render_manifest(const ManifestData& d) {
   if (d.pack) {
     for (const auto& [index, hits] : st.entry_hits) {
       auto [rule, forms] = describe_entry(*d.pack, index);
-      w.begin_object().key("rule").value(rule).key("forms").value(forms).key("hits").value(hits).end_object();
+      w.begin_object()
+          .key("rule")
+          .value(rule)
+          .key("forms")
+          .value(forms)
+          .key("hits")
+          .value(hits)
+          .end_object();
     }
   }
   w.end_array();

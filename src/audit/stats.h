@@ -38,8 +38,8 @@ struct Stats {
   uint64_t ambiguous = 0;        // context decisions with a low margin
   uint64_t edits = 0;            // edits applied in written counterfactuals
 
-  std::vector<GroupTally> before;  // per group, over records read (not rejected)
-  std::vector<GroupTally> after;   // per group, over records written
+  std::vector<GroupTally> before;           // per group, over records read (not rejected)
+  std::vector<GroupTally> after;            // per group, over records written
   std::map<uint32_t, uint64_t> entry_hits;  // pack entry index -> edits it produced
 
   // Adds `other` into this.

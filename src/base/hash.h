@@ -13,6 +13,8 @@ namespace evenhand {
 uint64_t stable_hash(uint64_t seed, std::string_view data);
 
 // Maps a hash to [0, 1) using its top 53 bits.
-inline double hash_unit(uint64_t h) { return static_cast<double>(h >> 11) * 0x1.0p-53; }
+inline double hash_unit(uint64_t h) {
+  return static_cast<double>(h >> 11) * 0x1.0p-53;
+}
 
 }  // namespace evenhand

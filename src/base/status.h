@@ -22,10 +22,10 @@ enum class ErrorKind {
 
 struct Error {
   ErrorKind kind = ErrorKind::internal;
-  std::string file;                   // path the failure is about; empty if none
-  std::optional<uint64_t> line;       // 1-based line (record) number, if known
-  std::optional<uint64_t> offset;     // byte offset (compressed offset for compressed input)
-  std::string reason;                 // human-readable, no trailing period
+  std::string file;                // path the failure is about; empty if none
+  std::optional<uint64_t> line;    // 1-based line (record) number, if known
+  std::optional<uint64_t> offset;  // byte offset (compressed offset for compressed input)
+  std::string reason;              // human-readable, no trailing period
 
   // One line: "file:line: byte N: reason" with the parts that are known.
   std::string message() const;
@@ -36,7 +36,7 @@ Error make_error(ErrorKind kind, std::string file, std::string reason);
 template <typename T>
 class [[nodiscard]] Result {
  public:
-  Result(T value) : v_(std::move(value)) {}  // NOLINT: implicit by design
+  Result(T value) : v_(std::move(value)) {}      // NOLINT: implicit by design
   Result(Error error) : v_(std::move(error)) {}  // NOLINT
   bool ok() const { return v_.index() == 0; }
   explicit operator bool() const { return ok(); }
@@ -69,14 +69,15 @@ class [[nodiscard]] Result<void> {
 
 using Status = Result<void>;
 
-inline Status ok_status() { return Status(); }
+inline Status ok_status() {
+  return Status();
+}
 
 }  // namespace evenhand
 
 // Propagate an error from an expression returning Status or Result<T>.
-#define EVENHAND_TRY(expr)                                 \
-  do {                                                     \
-    auto evenhand_try_status_ = (expr);                    \
-    if (!evenhand_try_status_.ok())                        \
-      return std::move(evenhand_try_status_).error();      \
+#define EVENHAND_TRY(expr)                                                          \
+  do {                                                                              \
+    auto evenhand_try_status_ = (expr);                                             \
+    if (!evenhand_try_status_.ok()) return std::move(evenhand_try_status_).error(); \
   } while (0)

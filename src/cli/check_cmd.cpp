@@ -10,8 +10,8 @@ namespace evenhand::cli {
 int check_command(const std::vector<std::string>& args) {
   po::options_description opts("Options");
   std::string pack_name;
-  opts.add_options()("help,h", "show this help")(
-      "pack", po::value(&pack_name), "a built-in pack name or a pack directory");
+  opts.add_options()("help,h", "show this help")("pack", po::value(&pack_name),
+                                                 "a built-in pack name or a pack directory");
   po::positional_options_description pos;
   pos.add("pack", 1);
   po::variables_map vm;
@@ -23,7 +23,8 @@ int check_command(const std::vector<std::string>& args) {
   }
   std::vector<pack::Diagnostic> diags;
   auto loaded = pack::load_pack(pack_name, diags);
-  for (const auto& d : diags) std::cout << pack_name << "/" << d.where.str() << ": " << d.message << "\n";
+  for (const auto& d : diags)
+    std::cout << pack_name << "/" << d.where.str() << ": " << d.message << "\n";
   if (!loaded.ok()) {
     if (diags.empty()) return report(loaded.error());
     std::cerr << "evenhand: " << pack_name << ": " << diags.size() << " problem"

@@ -8,15 +8,22 @@
 
 namespace evenhand::cli {
 
-void print_error(const std::string& message) { std::cerr << "evenhand: " << message << "\n"; }
+void print_error(const std::string& message) {
+  std::cerr << "evenhand: " << message << "\n";
+}
 
 int exit_code_for(ErrorKind kind) {
   switch (kind) {
-    case ErrorKind::usage: return kUsage;
-    case ErrorKind::input: return kInput;
-    case ErrorKind::output: return kOutput;
-    case ErrorKind::pack: return kPack;
-    case ErrorKind::internal: return kInternal;
+    case ErrorKind::usage:
+      return kUsage;
+    case ErrorKind::input:
+      return kInput;
+    case ErrorKind::output:
+      return kOutput;
+    case ErrorKind::pack:
+      return kPack;
+    case ErrorKind::internal:
+      return kInternal;
   }
   return kInternal;
 }

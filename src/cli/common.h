@@ -22,7 +22,8 @@ int exit_code_for(ErrorKind kind);
 // exit code to return right away (0 after --help, kUsage after a parse error).
 int parse_args(const std::string& command, const std::string& synopsis,
                const po::options_description& options, const std::vector<std::string>& args,
-               po::variables_map& vm, const po::positional_options_description* positional = nullptr);
+               po::variables_map& vm,
+               const po::positional_options_description* positional = nullptr);
 
 // The current UTC time as ISO 8601 ("2026-12-01T22:11:04Z").
 std::string utc_now();

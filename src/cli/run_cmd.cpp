@@ -45,10 +45,14 @@ bool parse_size(const std::string& s, size_t& out) {
   }
   std::string suffix = s.substr(pos);
   unsigned long long mul = 1;
-  if (suffix == "K" || suffix == "KiB") mul = 1ull << 10;
-  else if (suffix == "M" || suffix == "MiB") mul = 1ull << 20;
-  else if (suffix == "G" || suffix == "GiB") mul = 1ull << 30;
-  else if (!suffix.empty()) return false;
+  if (suffix == "K" || suffix == "KiB")
+    mul = 1ull << 10;
+  else if (suffix == "M" || suffix == "MiB")
+    mul = 1ull << 20;
+  else if (suffix == "G" || suffix == "GiB")
+    mul = 1ull << 30;
+  else if (!suffix.empty())
+    return false;
   out = static_cast<size_t>(n * mul);
   return true;
 }
@@ -125,10 +129,12 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
   } else if (mode == "passthrough") {
     ro.mode = pipeline::Mode::passthrough;
   } else if (mode == "balance") {
-    print_error("run: --mode balance is not available in this version (it needs the tally and plan steps)");
+    print_error(
+        "run: --mode balance is not available in this version (it needs the tally and plan steps)");
     return kUsage;
   } else {
-    print_error("run: --mode must be augment, substitute, balance or passthrough, not '" + mode + "'");
+    print_error("run: --mode must be augment, substitute, balance or passthrough, not '" + mode +
+                "'");
     return kUsage;
   }
   if (on_bad == "fail") {
@@ -229,8 +235,9 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
     if (rejections_shown < kShowRejections) {
       print_error("rejected: " + e.message());
     } else if (rejections_shown == kShowRejections) {
-      print_error("more records rejected; counts are in the manifest" +
-                  std::string(ro.rejects_path.empty() ? "" : " and every one in " + ro.rejects_path));
+      print_error(
+          "more records rejected; counts are in the manifest" +
+          std::string(ro.rejects_path.empty() ? "" : " and every one in " + ro.rejects_path));
     }
     ++rejections_shown;
   };
@@ -261,7 +268,12 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
         {"paragraphs", vm["paragraphs"].as<bool>() ? "true" : "false"},
         {"fields", json_strings(ro.fields)},
         {"seed", std::to_string(ro.seed)},
-        {"rate", [&] { std::string s; audit::JsonWriter(s).value(ro.rate); return s; }()},
+        {"rate",
+         [&] {
+           std::string s;
+           audit::JsonWriter(s).value(ro.rate);
+           return s;
+         }()},
         {"id_field", json_string(ro.id_pointer)},
         {"on_bad_record", json_string(on_bad)},
         {"max_record_bytes", std::to_string(ro.max_record_bytes)},
@@ -292,7 +304,8 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
     for (const auto& f : r.outputs) {
       std::fprintf(stderr, "  %-10s %s\n", (f.role + ":").c_str(), f.path.c_str());
     }
-    if (!manifest_path.empty()) std::fprintf(stderr, "  %-10s %s\n", "manifest:", manifest_path.c_str());
+    if (!manifest_path.empty())
+      std::fprintf(stderr, "  %-10s %s\n", "manifest:", manifest_path.c_str());
   }
   return kOk;
 }

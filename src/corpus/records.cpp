@@ -62,8 +62,8 @@ Result<RecordReader::Kind> RecordReader::next(RawRecord& out) {
 Result<RecordReader::Kind> RecordReader::next_line(RawRecord& out) {
   size_t scanned = begin_;  // bytes before this were searched already and hold no '\n'
   for (;;) {
-    const char* nl = static_cast<const char*>(
-        std::memchr(buf_.data() + scanned, '\n', end_ - scanned));
+    const char* nl =
+        static_cast<const char*>(std::memchr(buf_.data() + scanned, '\n', end_ - scanned));
     if (nl != nullptr) {
       size_t pos = static_cast<size_t>(nl - buf_.data());
       size_t len = pos - begin_;

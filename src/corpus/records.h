@@ -54,14 +54,14 @@ class RecordReader {
   Framing framing_;
   size_t max_;
   std::string buf_;
-  size_t begin_ = 0;     // start of unconsumed bytes in buf_
-  size_t end_ = 0;       // end of valid bytes in buf_
+  size_t begin_ = 0;         // start of unconsumed bytes in buf_
+  size_t end_ = 0;           // end of valid bytes in buf_
   uint64_t buf_offset_ = 0;  // stream offset of buf_[0]
-  uint64_t line_ = 0;    // lines consumed so far
+  uint64_t line_ = 0;        // lines consumed so far
   uint64_t blank_lines_ = 0;
   bool eof_ = false;
   bool started_ = false;
-  std::string para_;     // paragraph assembly
+  std::string para_;  // paragraph assembly
 };
 
 // True when `s` holds only spaces, tabs, CR and LF.

@@ -24,30 +24,30 @@ enum class Mode {
 enum class OnBadRecord { fail, skip, quarantine };
 
 struct Progress {
-  uint64_t records = 0;     // records framed so far
-  uint64_t raw_bytes = 0;   // input bytes consumed so far (compressed bytes when compressed)
-  uint64_t raw_total = 0;   // total input size when every input is a regular file, else 0
+  uint64_t records = 0;    // records framed so far
+  uint64_t raw_bytes = 0;  // input bytes consumed so far (compressed bytes when compressed)
+  uint64_t raw_total = 0;  // total input size when every input is a regular file, else 0
   double seconds = 0;
 };
 
 struct RunOptions {
-  std::vector<std::string> inputs;  // "-" is stdin
-  std::string output;               // "-" is stdout
-  std::string edits_path;           // audit log (JSONL); empty: none
-  std::string quarantine_path;      // raw copies of rejected records; empty: none
-  std::string rejects_path;         // one JSON line per rejection; empty: none
+  std::vector<std::string> inputs;              // "-" is stdin
+  std::string output;                           // "-" is stdout
+  std::string edits_path;                       // audit log (JSONL); empty: none
+  std::string quarantine_path;                  // raw copies of rejected records; empty: none
+  std::string rejects_path;                     // one JSON line per rejection; empty: none
   std::vector<std::string> fields = {"/text"};  // JSON Pointers with '*' (JSONL only)
   Format format = Format::jsonl;
   corpus::Framing framing = corpus::Framing::lines;
   Mode mode = Mode::augment;
   uint64_t seed = 0;
-  double rate = 0.5;           // substitute mode
-  std::string id_pointer;      // substitute: record identity from this value; empty: raw bytes
-  unsigned threads = 0;        // worker threads; 0: the machine's cores
+  double rate = 0.5;       // substitute mode
+  std::string id_pointer;  // substitute: record identity from this value; empty: raw bytes
+  unsigned threads = 0;    // worker threads; 0: the machine's cores
   OnBadRecord on_bad = OnBadRecord::fail;
   size_t max_record_bytes = 16u << 20;
   io::SinkOptions output_options;
-  bool provenance = false;     // add the "_evenhand" member to every written JSONL record
+  bool provenance = false;  // add the "_evenhand" member to every written JSONL record
 
   // Called from the writer thread, about four times a second.
   std::function<void(const Progress&)> on_progress;

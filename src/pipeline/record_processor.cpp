@@ -33,7 +33,7 @@ struct RecordProcessor::Impl {
   std::vector<std::string> pointers;
   rewrite::RecordResult result;
   std::vector<corpus::FieldEdits> field_edits;
-  std::string line;   // a counterfactual line
+  std::string line;  // a counterfactual line
   std::string tmp;
 
   Impl(const RunOptions& o, std::vector<corpus::PointerPattern> patterns,
@@ -112,14 +112,15 @@ struct RecordProcessor::Impl {
     for (const auto& e : result.edits) {
       w.begin_object();
       w.key("field").value(options.format == Format::text ? std::string_view("")
-                                                           : std::string_view(pointers[e.field]));
+                                                          : std::string_view(pointers[e.field]));
       w.key("at").value(static_cast<uint64_t>(e.begin));
       w.key("len").value(static_cast<uint64_t>(e.end - e.begin));
       w.key("from").value(fields[e.field].substr(e.begin, e.end - e.begin));
       w.key("to").value(e.replacement);
       if (e.rule) w.key("rule").value(e.rule->str());
       w.key("why").value(rewrite::edit_reason_name(e.reason));
-      if (e.reason == rewrite::EditReason::context) w.key("score").value(static_cast<double>(e.score));
+      if (e.reason == rewrite::EditReason::context)
+        w.key("score").value(static_cast<double>(e.score));
       w.end_object();
     }
     w.end_array().end_object();

@@ -26,8 +26,8 @@ struct RecordOrigin {
 
 // The bytes one record produces; the caller appends them to the batch buffers.
 struct RecordOutput {
-  std::string* out = nullptr;         // corpus lines
-  std::string* edits = nullptr;       // audit log lines (null: no audit log)
+  std::string* out = nullptr;    // corpus lines
+  std::string* edits = nullptr;  // audit log lines (null: no audit log)
   audit::Stats* stats = nullptr;
 };
 

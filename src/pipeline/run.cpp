@@ -171,14 +171,16 @@ Status Runner::prepare() {
   for (size_t i = 0; i < outs.size(); ++i) {
     for (const auto& in : opt_.inputs) {
       if (same_file(outs[i].first, in)) {
-        return make_error(ErrorKind::usage, outs[i].first,
-                          std::string(outs[i].second) + " names an input file; refusing to overwrite it");
+        return make_error(
+            ErrorKind::usage, outs[i].first,
+            std::string(outs[i].second) + " names an input file; refusing to overwrite it");
       }
     }
     for (size_t j = 0; j < i; ++j) {
       if (outs[i].first != "-" && same_file(outs[i].first, outs[j].first)) {
-        return make_error(ErrorKind::usage, outs[i].first,
-                          std::string(outs[i].second) + " and " + outs[j].second + " name the same file");
+        return make_error(
+            ErrorKind::usage, outs[i].first,
+            std::string(outs[i].second) + " and " + outs[j].second + " name the same file");
       }
     }
   }
@@ -209,7 +211,9 @@ BatchPtr Runner::new_batch(uint32_t input) {
   return b;
 }
 
-void Runner::send(BatchPtr b) { work_.push(std::move(b)); }
+void Runner::send(BatchPtr b) {
+  work_.push(std::move(b));
+}
 
 void Runner::reader_main() {
   uint32_t n_inputs = static_cast<uint32_t>(opt_.inputs.size());
@@ -290,10 +294,10 @@ void Runner::process_batch(Batch& b, RecordProcessor& proc) {
     Error err;
     bool bad = false;
     if (r.oversized) {
-      err = make_error(ErrorKind::input, path,
-                       "record of " + std::to_string(r.size) +
-                           " bytes is over --max-record-bytes " +
-                           std::to_string(opt_.max_record_bytes));
+      err =
+          make_error(ErrorKind::input, path,
+                     "record of " + std::to_string(r.size) + " bytes is over --max-record-bytes " +
+                         std::to_string(opt_.max_record_bytes));
       err.line = r.line;
       bad = true;
     } else {
@@ -440,8 +444,7 @@ Result<RunResult> Runner::run() {
     f.role = n.role;
     result_.outputs.push_back(std::move(f));
   }
-  result_.seconds =
-      std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  result_.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   return std::move(result_);
 }
 

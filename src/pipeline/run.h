@@ -19,7 +19,6 @@ namespace evenhand::pipeline {
 
 using FileInfo = audit::FileInfo;
 
-
 struct RunResult {
   audit::Stats stats;
   std::vector<FileInfo> inputs;

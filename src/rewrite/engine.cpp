@@ -4,10 +4,14 @@ namespace evenhand::rewrite {
 
 const char* edit_reason_name(EditReason r) {
   switch (r) {
-    case EditReason::lexicon: return "lexicon";
-    case EditReason::name: return "name";
-    case EditReason::context: return "context";
-    case EditReason::agreement: return "agreement";
+    case EditReason::lexicon:
+      return "lexicon";
+    case EditReason::name:
+      return "name";
+    case EditReason::context:
+      return "context";
+    case EditReason::agreement:
+      return "agreement";
   }
   return "unknown";
 }
@@ -45,6 +49,8 @@ class IdentityEngine final : public Engine {
 
 }  // namespace
 
-std::unique_ptr<Engine> make_identity_engine() { return std::make_unique<IdentityEngine>(); }
+std::unique_ptr<Engine> make_identity_engine() {
+  return std::make_unique<IdentityEngine>();
+}
 
 }  // namespace evenhand::rewrite

@@ -19,30 +19,30 @@ namespace evenhand::rewrite {
 
 // Why an edit was made.
 enum class EditReason : uint8_t {
-  lexicon,   // a one-to-one word form of the pack
-  name,      // a first name
-  context,   // a one-to-many form decided from context (score says how sure)
-  agreement, // a dependent word changed to agree with an edit (verbs, articles)
+  lexicon,    // a one-to-one word form of the pack
+  name,       // a first name
+  context,    // a one-to-many form decided from context (score says how sure)
+  agreement,  // a dependent word changed to agree with an edit (verbs, articles)
 };
 const char* edit_reason_name(EditReason r);
 
 struct Edit {
-  uint32_t field = 0;   // index of the field in the record
-  uint32_t begin = 0;   // decoded byte range in that field's text
+  uint32_t field = 0;  // index of the field in the record
+  uint32_t begin = 0;  // decoded byte range in that field's text
   uint32_t end = 0;
   std::string replacement;
   EditReason reason = EditReason::lexicon;
   const pack::SourceRef* rule = nullptr;  // the pack line that fired (owned by the pack)
-  float score = 0;      // decision margin for context edits
+  float score = 0;                        // decision margin for context edits
 };
 
 // Counts per group, indexed like CompiledPack::groups().
 using GroupCounts = std::vector<uint32_t>;
 
 struct RecordResult {
-  std::vector<Edit> edits;   // sorted by (field, begin), not overlapping
-  GroupCounts before;        // mentions of each group in the record as read
-  GroupCounts after;         // mentions of each group in the counterfactual
+  std::vector<Edit> edits;             // sorted by (field, begin), not overlapping
+  GroupCounts before;                  // mentions of each group in the record as read
+  GroupCounts after;                   // mentions of each group in the counterfactual
   const pack::Guard* guard = nullptr;  // set when a guard phrase blocked the rewrite
   uint32_t protected_spans = 0;        // mentions skipped because they sat in protected spans
   uint32_t ambiguous = 0;              // context decisions with a low margin

@@ -64,7 +64,7 @@ class LexiconWorker final : public Worker {
 
  private:
   struct Item {
-    uint32_t begin = 0, end = 0;     // bytes in the field
+    uint32_t begin = 0, end = 0;  // bytes in the field
     uint32_t fold_off = 0, fold_len = 0;
     text::TokenKind kind = text::TokenKind::punct;
   };
@@ -95,7 +95,8 @@ class LexiconWorker final : public Worker {
 
 class LexiconEngine final : public Engine {
  public:
-  LexiconEngine(std::shared_ptr<const pack::CompiledPack> p, std::unique_ptr<text::ProtectedSpans> ps,
+  LexiconEngine(std::shared_ptr<const pack::CompiledPack> p,
+                std::unique_ptr<text::ProtectedSpans> ps,
                 std::shared_ptr<const PossessiveModel> model, const EngineOptions& o)
       : pack_(std::move(p)), protect_(std::move(ps)), model_(std::move(model)), options_(o) {
     const auto& groups = pack_->groups();
@@ -229,7 +230,8 @@ bool LexiconWorker::surname_position(size_t k) const {
   for (const char* t : kTitles)
     if (prev == t) return true;
   // "Matthew Tanner": a capitalised first name right before makes this one a surname.
-  if (p + 1 == k && items_[p].kind == text::TokenKind::word && items_[p].end + 1 == items_[k].begin) {
+  if (p + 1 == k && items_[p].kind == text::TokenKind::word &&
+      items_[p].end + 1 == items_[k].begin) {
     if (const auto* entries = e_.pack_->lookup(prev)) {
       for (const auto& en : *entries)
         if (en.is_name && en.words.size() == 1) return true;
@@ -289,8 +291,9 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
     std::string_view original = text.substr(begin, end - begin);
     text::CasePattern pattern = text::case_pattern(original);
     if (first->is_name) {
-      bool capital = pattern == text::CasePattern::title || pattern == text::CasePattern::upper ||
-                     (pattern == text::CasePattern::mixed && original[0] >= 'A' && original[0] <= 'Z');
+      bool capital =
+          pattern == text::CasePattern::title || pattern == text::CasePattern::upper ||
+          (pattern == text::CasePattern::mixed && original[0] >= 'A' && original[0] <= 'Z');
       if (!capital) continue;
       if (pk.names()[first->set].word_like && sentence_start(k)) continue;
       if (surname_position(k)) continue;
@@ -353,16 +356,18 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
     if (original.find("\xE2\x80\x99") != std::string_view::npos) {
       std::string curly;
       for (char c : scratch_) {
-        if (c == '\'') curly += "\xE2\x80\x99";
-        else curly += c;
+        if (c == '\'')
+          curly += "\xE2\x80\x99";
+        else
+          curly += c;
       }
       scratch_ = std::move(curly);
     }
     ed.replacement = scratch_;
     ed.reason = reason;
     ed.score = score;
-    uint32_t hit = chosen->is_name ? static_cast<uint32_t>(pk.sets().size() + chosen->set)
-                                   : chosen->set;
+    uint32_t hit =
+        chosen->is_name ? static_cast<uint32_t>(pk.sets().size() + chosen->set) : chosen->set;
     ed.rule = chosen->is_name ? &pk.names()[chosen->set].where : &pk.sets()[chosen->set].where;
     if (ed.replacement != original) {
       out.edits.push_back(std::move(ed));

@@ -17,7 +17,9 @@ using evenhand::testing::write_file;
 
 namespace {
 
-std::string binary() { return evenhand::testing::evenhand_binary(); }
+std::string binary() {
+  return evenhand::testing::evenhand_binary();
+}
 
 struct Ran {
   int code = -1;
@@ -40,7 +42,9 @@ std::string passthrough(const TempDir& d, const std::string& in, const std::stri
   return "run --mode passthrough --in " + in + " --out " + d.file("out.jsonl") + " " + extra;
 }
 
-size_t line_count(const std::string& s) { return std::count(s.begin(), s.end(), '\n'); }
+size_t line_count(const std::string& s) {
+  return std::count(s.begin(), s.end(), '\n');
+}
 
 // Exit codes as documented in the README.
 constexpr int kUsage = 2, kInput = 3, kOutput = 4;
@@ -99,8 +103,9 @@ TEST_CASE("a record over --max-record-bytes is rejected; skip counts and drops i
   REQUIRE(r.code == kInput);
   REQUIRE(r.err.find(in + ":1: record of 2012 bytes is over --max-record-bytes 1024") !=
           std::string::npos);
-  auto s = run(d, passthrough(d, in, "--max-record-bytes 1K --on-bad-record skip --manifest " +
-                                         d.file("m.json")));
+  auto s = run(
+      d, passthrough(d, in,
+                     "--max-record-bytes 1K --on-bad-record skip --manifest " + d.file("m.json")));
   REQUIRE(s.code == 0);
   REQUIRE(read_file(d.file("out.jsonl")) == "{\"text\":\"short\"}\n");
   std::string m = read_file(d.file("m.json"));
@@ -144,7 +149,8 @@ TEST_CASE("an unwritable output directory fails before reading") {
   TempDir d;
   std::string in = d.file("in.jsonl");
   write_file(in, "{\"text\":\"x\"}\n");
-  auto r = run(d, "run --mode passthrough --in " + in + " --out " + d.file("no/such/dir/out.jsonl"));
+  auto r =
+      run(d, "run --mode passthrough --in " + in + " --out " + d.file("no/such/dir/out.jsonl"));
   REQUIRE(r.code == kOutput);
   REQUIRE(line_count(r.err) == 1);
   REQUIRE(r.err.find("does not exist") != std::string::npos);
@@ -154,7 +160,8 @@ TEST_CASE("a full disk is reported and exits with the output code") {
   TempDir d;
   std::string in = d.file("in.jsonl");
   std::string body;
-  for (int i = 0; i < 50000; ++i) body += "{\"text\":\"filler line number " + std::to_string(i) + "\"}\n";
+  for (int i = 0; i < 50000; ++i)
+    body += "{\"text\":\"filler line number " + std::to_string(i) + "\"}\n";
   write_file(in, body);
   auto r = run(d, "run --mode passthrough --in " + in + " --out /dev/full");
   REQUIRE(r.code == kOutput);

@@ -167,7 +167,9 @@ TEST_CASE("records read = originals written + rejected, in every bad-record mode
       "{\"text\": broken\n"
       "[1,2,3]\n"
       "{\"text\":\"bad \xff utf8\"}\n"
-      "{\"text\":\"" + std::string(300, 'x') + "\"}\n"
+      "{\"text\":\"" +
+      std::string(300, 'x') +
+      "\"}\n"
       "{\"text\":\"beta\"}\n";
   write_file(d.file("in.jsonl"), in);
   SwapEngine engine;
@@ -220,7 +222,8 @@ TEST_CASE("a bad record under fail leaves no output behind") {
   REQUIRE_FALSE(std::filesystem::exists(o.output));
   REQUIRE_FALSE(std::filesystem::exists(o.edits_path));
   size_t leftovers = 0;
-  for (const auto& e : std::filesystem::directory_iterator(d.path())) leftovers += e.path() != d.file("in.jsonl");
+  for (const auto& e : std::filesystem::directory_iterator(d.path()))
+    leftovers += e.path() != d.file("in.jsonl");
   REQUIRE(leftovers == 0);
 }
 
@@ -277,10 +280,13 @@ TEST_CASE("provenance adds one namespaced member to every written record") {
   auto r = pipeline::run(o, engine);
   REQUIRE(r.ok());
   std::string src = d.file("in.jsonl");
-  REQUIRE(read_file(o.output) ==
-          "{\"text\":\"alpha\",\"_evenhand\":{\"source\":\"" + src + "\",\"line\":1,\"copy\":\"original\"}}\n"
-          "{\"text\":\"beta\",\"_evenhand\":{\"source\":\"" + src + "\",\"line\":1,\"copy\":\"counterfactual\"}}\n"
-          "{\"_evenhand\":{\"source\":\"" + src + "\",\"line\":2,\"copy\":\"original\"}}\n");
+  REQUIRE(read_file(o.output) == "{\"text\":\"alpha\",\"_evenhand\":{\"source\":\"" + src +
+                                     "\",\"line\":1,\"copy\":\"original\"}}\n"
+                                     "{\"text\":\"beta\",\"_evenhand\":{\"source\":\"" +
+                                     src +
+                                     "\",\"line\":1,\"copy\":\"counterfactual\"}}\n"
+                                     "{\"_evenhand\":{\"source\":\"" +
+                                     src + "\",\"line\":2,\"copy\":\"original\"}}\n");
 }
 
 TEST_CASE("an output that names an input is refused before anything is written") {
@@ -311,5 +317,6 @@ TEST_CASE("several inputs are read in order and each is described") {
   REQUIRE(r->inputs[1].data_bytes == 32);  // 15 + 17 bytes, terminators included
   REQUIRE(r->outputs.at(0).compression == "zstd");
   REQUIRE(evenhand::testing::shell("zstd -dc " + o.output + " > " + d.file("plain")) == 0);
-  REQUIRE(read_file(d.file("plain")) == "{\"text\":\"one\"}\n{\"text\":\"two\"}\n{\"text\":\"three\"}\n");
+  REQUIRE(read_file(d.file("plain")) ==
+          "{\"text\":\"one\"}\n{\"text\":\"two\"}\n{\"text\":\"three\"}\n");
 }

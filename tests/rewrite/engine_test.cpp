@@ -72,7 +72,8 @@ TEST_CASE("her and his are decided from context") {
 
 TEST_CASE("protected spans are never edited") {
   Rewriter rw(en_pack());
-  std::string t = "See https://example.org/mothers-day or mail his.name@example.net, @queenofspokes";
+  std::string t =
+      "See https://example.org/mothers-day or mail his.name@example.net, @queenofspokes";
   REQUIRE(rw(t) == t);
   REQUIRE(rw("run `she --help` then ask her") == "run `she --help` then ask him");
 }
