@@ -3,6 +3,7 @@
 #include <simdjson.h>
 
 #include <algorithm>
+#include <cmath>
 
 #include "audit/json_writer.h"
 #include "base/hash.h"
@@ -120,7 +121,7 @@ struct RecordProcessor::Impl {
       if (e.rule) w.key("rule").value(e.rule->str());
       w.key("why").value(rewrite::edit_reason_name(e.reason));
       if (e.reason == rewrite::EditReason::context)
-        w.key("score").value(static_cast<double>(e.score));
+        w.key("score").value(std::round(static_cast<double>(e.score) * 1000) / 1000);
       w.end_object();
     }
     w.end_array().end_object();
