@@ -220,3 +220,27 @@ TEST_CASE("the manifest carries the fixed keys and the record invariant") {
   REQUIRE(q(".outputs[0].role") == "corpus");
   REQUIRE(q(".groups | type") == "object");
 }
+
+TEST_CASE("check reports every problem of a broken pack with file:line, and run refuses it") {
+  TempDir d;
+  std::filesystem::create_directory(d.file("pack"));
+  write_file(d.file("pack/pack.txt"),
+             "pack broken\nversion 1.0.0\nlanguage en\naxis gender\ngroups female male\n");
+  write_file(d.file("pack/words.txt"),
+             "[sets]\nshe | he\nher | him\nher | his\nqueen | king | prince\n");
+  auto r = run(d, "check " + d.file("pack"));
+  REQUIRE(r.code == 5);
+  // Two problems: "her" has two counterparts without tags (lines 3-4), and a set with three
+  // columns for two groups (line 5).
+  REQUIRE(r.out.find("words.txt:4") != std::string::npos);
+  REQUIRE(r.out.find("words.txt:5") != std::string::npos);
+  std::string in = d.file("in.jsonl");
+  write_file(in, "{\"text\":\"she\"}\n");
+  auto run_r = run(d, "run --pack " + d.file("pack") + " --in " + in + " --out " + d.file("o.jsonl"));
+  REQUIRE(run_r.code == 5);
+  REQUIRE(run_r.err.find("words.txt:") != std::string::npos);
+  REQUIRE_FALSE(std::filesystem::exists(d.file("o.jsonl")));
+  auto ok = run(d, "check en-gender");
+  REQUIRE(ok.code == 0);
+  REQUIRE(ok.out.find("ok") != std::string::npos);
+}
