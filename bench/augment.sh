@@ -27,13 +27,15 @@ warm "$X"
 load_start=$(load1)
 echo "# augment $(date -u +%FT%TZ) load=$load_start" >> "$BENCH_LOG"
 
-declare -A aw=() pw=() arss=() acopies=()
+declare -A aw=() pw=() arss=() acopies=() acpu=()
 nw=()
+ncpu=()
 ncopies=""
 for ((r = 1; r <= RUNS || r <= NAIVE_RUNS; r++)); do
   if ((r <= NAIVE_RUNS)); then
     timed "naive_swap run $r" python3 "$BENCH_DIR/naive_swap.py" "$X" "$WORK/naive-1x.jsonl.zst"
     nw+=("$T_WALL")
+    ncpu+=("$T_CPU")
     ncopies=$(sed -n 's/^naive_swap: .*, \([0-9]*\) swapped copies$/\1/p' "$WORK/last.stderr")
   fi
   ((r <= RUNS)) || continue
@@ -42,6 +44,7 @@ for ((r = 1; r <= RUNS || r <= NAIVE_RUNS; r++)); do
       --in "$X" --out "$WORK/aug-1x-t$t.jsonl.zst" "${FIELDS[@]}" --threads "$t"
     aw[$t]="${aw[$t]:-} $T_WALL"
     arss[$t]="${arss[$t]:-} $T_RSS_MB"
+    acpu[$t]="${acpu[$t]:-} $T_CPU"
     acopies[$t]=$(sed -n 's/^evenhand: .*(\([0-9]*\) counterfactual).*/\1/p' "$WORK/last.stderr")
     timed "evenhand passthrough threads $t run $r" "$EVENHAND" run --mode passthrough \
       --in "$X" --out "$WORK/pt-1x-t$t.jsonl.zst" "${FIELDS[@]}" --threads "$t"
@@ -53,12 +56,14 @@ n_mbps=$(mbps "$bytes" "$(median "${nw[@]}")")
 echo "Augment, $(date -u '+%F %H:%M UTC'), $(machine_line), $("$EVENHAND" --version), pack $PACK"
 echo "Input corpus-1x.jsonl.zst, $(awk -v b="$bytes" 'BEGIN{printf "%.0f", b/1e6}') MB uncompressed."
 echo "Load average (1 min) at start: $load_start; runs per cell: $RUNS evenhand, $NAIVE_RUNS"
-echo "naive_swap.py (median wall time; peak RSS is the largest of the runs)."
+echo "naive_swap.py (median wall time and median CPU time, user + system; peak RSS is the largest"
+echo "of the runs)."
 echo
-echo "naive_swap.py (1 thread): $n_mbps MB/s, ${ncopies:-?} swapped copies."
+echo "naive_swap.py (1 thread): $n_mbps MB/s, CPU $(median "${ncpu[@]}") s (python3 and both zstd"
+echo "processes), ${ncopies:-?} swapped copies."
 echo
-echo "| threads | evenhand augment MB/s | pass-through MB/s | augment / pass-through | augment / naive_swap.py | augment peak RSS MB | counterfactual copies |"
-echo "|---:|---:|---:|---:|---:|---:|---:|"
+echo "| threads | evenhand augment MB/s | pass-through MB/s | augment / pass-through | augment / naive_swap.py | augment peak RSS MB | augment CPU s | counterfactual copies |"
+echo "|---:|---:|---:|---:|---:|---:|---:|---:|"
 for t in $THREADS; do
   # shellcheck disable=SC2086
   a_mbps=$(mbps "$bytes" "$(median ${aw[$t]})")
@@ -66,7 +71,7 @@ for t in $THREADS; do
   p_mbps=$(mbps "$bytes" "$(median ${pw[$t]})")
   # shellcheck disable=SC2086
   echo "| $t | $a_mbps | $p_mbps | $(ratio "$a_mbps" "$p_mbps") | $(ratio "$a_mbps" "$n_mbps") |" \
-    "$(max ${arss[$t]}) | ${acopies[$t]:-?} |"
+    "$(max ${arss[$t]}) | $(median ${acpu[$t]}) | ${acopies[$t]:-?} |"
   echo "threads=$t augment_walls=[${aw[$t]# }] passthrough_walls=[${pw[$t]# }] naive_walls=[${nw[*]}]" \
     >> "$BENCH_LOG"
 done

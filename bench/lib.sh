@@ -62,9 +62,9 @@ wait_for_low_load() {
   load1
 }
 
-# timed LABEL CMD...: runs CMD under /usr/bin/time -v; sets T_WALL (seconds) and T_RSS_MB
-# (peak resident set, MB = 2^20 bytes); CMD's stderr is left in $WORK/last.stderr and
-# appended to $WORK/stderr.log. Dies when CMD fails.
+# timed LABEL CMD...: runs CMD under /usr/bin/time -v; sets T_WALL (seconds), T_CPU (user +
+# system seconds, children included) and T_RSS_MB (peak resident set of the largest process,
+# MB = 2^20 bytes); CMD's stderr is left in $WORK/last.stderr and appended to $WORK/stderr.log. Dies when CMD fails.
 timed() {
   local label="$1"
   shift
@@ -78,9 +78,10 @@ timed() {
   T_WALL=$(awk '/Elapsed \(wall clock\) time/ {
       n = split($NF, p, ":"); s = 0; for (i = 1; i <= n; i++) s = s * 60 + p[i]; print s }' "$tf")
   T_RSS_MB=$(awk '/Maximum resident set size/ { printf "%.1f", $NF / 1024 }' "$tf")
+  T_CPU=$(awk '/(User|System) time \(seconds\)/ { s += $NF } END { printf "%.2f", s }' "$tf")
   rm -f "$tf"
-  printf '%s\t%s\twall_s=%s\trss_mb=%s\tload=%s\n' "$(date -u +%FT%TZ)" "$label" "$T_WALL" \
-    "$T_RSS_MB" "$(load1)" >> "$BENCH_LOG"
+  printf '%s\t%s\twall_s=%s\tcpu_s=%s\trss_mb=%s\tload=%s\n' "$(date -u +%FT%TZ)" "$label" \
+    "$T_WALL" "$T_CPU" "$T_RSS_MB" "$(load1)" >> "$BENCH_LOG"
 }
 
 # median V1 V2 ...: the middle value (lower middle for an even count).

@@ -18,29 +18,32 @@ for in in $INPUTS; do need_input "corpus-$in.jsonl.zst"; done
 load_start=$(load1)
 echo "# passthrough $(date -u +%FT%TZ) load=$load_start" >> "$BENCH_LOG"
 echo "Pass-through, $(date -u '+%F %H:%M UTC'), $(machine_line), $("$EVENHAND" --version)"
-echo "Load average (1 min) at start: $load_start; runs per cell: $RUNS (median wall time;"
-echo "peak RSS is the largest of the runs)."
+echo "Load average (1 min) at start: $load_start; runs per cell: $RUNS (median wall time and"
+echo "median CPU time, user + system; peak RSS is the largest of the runs)."
 echo
-echo "| input | MB (uncompressed) | threads | evenhand MB/s | zstd MB/s | ratio | evenhand peak RSS MB | output identical |"
-echo "|---|---:|---:|---:|---:|---:|---:|---|"
+echo "| input | MB (uncompressed) | threads | evenhand MB/s | zstd MB/s | ratio | evenhand peak RSS MB | evenhand CPU s | zstd CPU s | output identical |"
+echo "|---|---:|---:|---:|---:|---:|---:|---:|---:|---|"
 
 for in in $INPUTS; do
   X="$DATA/corpus-$in.jsonl.zst"
   bytes=$(raw_bytes "$X")
   warm "$X"
-  declare -A walls=() rsss=()
+  declare -A walls=() rsss=() cpus=()
   zwalls=()
+  zcpus=()
   # Interleave the baseline and every thread count so load drift hits them alike.
   for ((r = 1; r <= RUNS; r++)); do
     timed "zstd $in run $r" bash -c 'zstd -dc -q "$1" | zstd -3 -q -c > "$2"' _ \
       "$X" "$WORK/zstd-$in.jsonl.zst"
     zwalls+=("$T_WALL")
+    zcpus+=("$T_CPU")
     for t in $THREADS; do
       timed "evenhand passthrough $in threads $t run $r" "$EVENHAND" run --mode passthrough \
         --in "$X" --out "$WORK/pt-$in-t$t.jsonl.zst" --field /text --field '/messages/*/content' \
         --threads "$t"
       walls[$t]="${walls[$t]:-} $T_WALL"
       rsss[$t]="${rsss[$t]:-} $T_RSS_MB"
+      cpus[$t]="${cpus[$t]:-} $T_CPU"
     done
   done
   zw=$(median "${zwalls[@]}")
@@ -49,6 +52,8 @@ for in in $INPUTS; do
     ew=$(median ${walls[$t]})
     # shellcheck disable=SC2086
     rss=$(max ${rsss[$t]})
+    # shellcheck disable=SC2086
+    ecpu=$(median ${cpus[$t]})
     same="not checked"
     if [[ "$VERIFY" == 1 ]]; then
       if cmp -s <(zstd -dc -q "$X") <(zstd -dc -q "$WORK/pt-$in-t$t.jsonl.zst"); then
@@ -60,11 +65,11 @@ for in in $INPUTS; do
     e_mbps=$(mbps "$bytes" "$ew")
     z_mbps=$(mbps "$bytes" "$zw")
     echo "| $in | $(awk -v b="$bytes" 'BEGIN{printf "%.0f", b/1e6}') | $t | $e_mbps | $z_mbps |" \
-      "$(ratio "$e_mbps" "$z_mbps") | $rss | $same |"
+      "$(ratio "$e_mbps" "$z_mbps") | $rss | $ecpu | $(median "${zcpus[@]}") | $same |"
     echo "$in threads=$t evenhand_walls=[${walls[$t]# }] zstd_walls=[${zwalls[*]}] rss=[${rsss[$t]# }]" \
       >> "$BENCH_LOG"
   done
-  unset walls rsss
+  unset walls rsss cpus
 done
 echo
 echo "Load average (1 min) at end: $(load1). Targets: ratio >= 0.7 at 2 threads; peak RSS <= 128 MB"
