@@ -1,0 +1,772 @@
+#include "rewrite/possessive.h"
+
+#include <algorithm>
+#include <charconv>
+#include <limits>
+#include <random>
+#include <utility>
+
+namespace evenhand::rewrite {
+
+namespace {
+
+constexpr std::string_view kMagic = "evenhand-possessive-model 1";
+constexpr std::string_view kClasses = "determiner object standalone";
+constexpr int kClassCount = 3;
+// Longest word (in bytes) that goes into a feature; longer ones are cut at a character start.
+constexpr size_t kMaxWordBytes = 40;
+
+enum class Target : uint8_t { her, his, other };
+
+Target target_of(std::string_view w) {
+  if (w.size() == 3) {
+    auto lower = [](char c) { return (c >= 'A' && c <= 'Z') ? char(c - 'A' + 'a') : c; };
+    char a = lower(w[0]), b = lower(w[1]), c = lower(w[2]);
+    if (a == 'h' && b == 'e' && c == 'r') return Target::her;
+    if (a == 'h' && b == 'i' && c == 's') return Target::his;
+  }
+  return Target::other;
+}
+
+// Bit set of the classes that compete for a target.
+unsigned allowed_classes(Target t) {
+  switch (t) {
+    case Target::her:
+      return (1u << Decision::determiner) | (1u << Decision::object);
+    case Target::his:
+      return (1u << Decision::determiner) | (1u << Decision::standalone);
+    case Target::other:
+      break;
+  }
+  return 7u;
+}
+
+std::string_view target_name(Target t) {
+  switch (t) {
+    case Target::her:
+      return "her";
+    case Target::his:
+      return "his";
+    case Target::other:
+      break;
+  }
+  return "other";
+}
+
+// ---- Closed-class lexicon ---------------------------------------------------------------
+
+// Small hand-made lists of closed-class words (common practice in part-of-speech work) and of
+// verbs that commonly take an object; the perceptron learns what each category implies.
+constexpr std::string_view kDet =
+    "the a an this that these those some any no every each all both either neither another "
+    "such what which whose many much few several more most less enough half whatever whichever";
+constexpr std::string_view kPrep =
+    "of in on at for with by from into onto upon about against among amongst between through "
+    "throughout during without within under over above below beneath behind beside besides "
+    "near toward towards across along around after before since until till like unlike than "
+    "past via despite except beyond inside outside off up down out per amid";
+constexpr std::string_view kConj = "and or but nor yet so";
+constexpr std::string_view kSub =
+    "if because although though while when where whether unless as once whenever wherever lest "
+    "who whom how why";
+constexpr std::string_view kSubj = "i you he she it we they";
+constexpr std::string_view kObj = "me him us them";
+constexpr std::string_view kPoss = "my your his our their its";
+constexpr std::string_view kStand = "mine yours hers ours theirs";
+constexpr std::string_view kAux =
+    "be is are was were am been being have has had having do does did will would shall should "
+    "can could may might must ought 'd 'll 're 've 'm";
+constexpr std::string_view kNeg = "not never n't";
+constexpr std::string_view kVerbObj =
+    "give gives gave given giving tell tells told telling show shows showed shown showing ask "
+    "asks asked asking offer offers offered offering send sends sent sending bring brings "
+    "brought bringing teach teaches taught teaching buy buys bought buying hand handed handing "
+    "make makes made making let lets letting help helps helped helping see sees saw seen seeing "
+    "watch watched watching hear hears heard hearing feel feels felt find finds found finding "
+    "call calls called calling keep keeps kept keeping leave leaves leaving take takes took "
+    "taken taking pay pays paid paying promise promised lend lent get gets got gotten getting "
+    "wish wished allow allows allowed want wants wanted expect expected kiss kissed kissing love "
+    "loves loved meet meets met meeting marry married hold holds held holding pull pulled touch "
+    "touched thank thanked remind reminded save saved hurt warn warned invite invited urge urged "
+    "force forced order ordered introduce introduced lead led drive drove carry carried wake "
+    "woke greet greeted stop stopped catch caught join joined visit visited answer answered "
+    "persuade persuaded convince convinced assure assured follow followed";
+
+class Lexicon {
+ public:
+  Lexicon() {
+    add(kDet, "det");
+    add(kPrep, "prep");
+    add(kConj, "conj");
+    add(kSub, "sub");
+    add(kSubj, "subj");
+    add(kObj, "obj");
+    add(kPoss, "poss");
+    add(kStand, "stand");
+    add(kAux, "aux");
+    add(kNeg, "neg");
+    add(kVerbObj, "vobj");
+    map_.emplace("to", "to");
+    map_.emplace("her", "her");
+  }
+  // Category of a folded word, or "w" for an open-class word.
+  std::string_view cat(std::string_view folded) const {
+    auto it = map_.find(folded);
+    return it == map_.end() ? std::string_view("w") : it->second;
+  }
+
+ private:
+  void add(std::string_view list, std::string_view cat) {
+    size_t pos = 0;
+    while (pos < list.size()) {
+      size_t end = list.find(' ', pos);
+      if (end == std::string_view::npos) end = list.size();
+      if (end > pos) map_.emplace(list.substr(pos, end - pos), cat);  // first list wins
+      pos = end + 1;
+    }
+  }
+  std::unordered_map<std::string_view, std::string_view> map_;
+};
+
+const Lexicon& lexicon() {
+  static const Lexicon lex;
+  return lex;
+}
+
+// ---- Token normalisation ------------------------------------------------------------------
+
+// A token as the features see it: either a symbol (punctuation class, number, boundary) or a
+// word, folded into a fixed buffer (ASCII lower case, typographic apostrophe -> ').
+struct Tok {
+  bool is_word = false;
+  bool ends_sentence = false;
+  std::string_view symbol;  // when !is_word
+  char buf[kMaxWordBytes];
+  size_t len = 0;
+  std::string_view text() const { return is_word ? std::string_view(buf, len) : symbol; }
+};
+
+bool is_ascii_alnum(unsigned char c) {
+  return (c >= '0' && c <= '9') || (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z');
+}
+
+// Classifies a punctuation-only token (no ASCII letter or digit, and no non-ASCII letter);
+// returns "" when the token is not punctuation.
+std::string_view punct_class(std::string_view w, bool& terminator) {
+  terminator = false;
+  bool all_stops = true;
+  std::string_view first_class;
+  size_t i = 0;
+  while (i < w.size()) {
+    unsigned char c = static_cast<unsigned char>(w[i]);
+    std::string_view cls;
+    size_t step = 1;
+    bool stop = false;
+    if (c < 0x80) {
+      if (is_ascii_alnum(c)) return {};
+      switch (c) {
+        case '.':
+        case '!':
+        case '?':
+          cls = ".";
+          stop = true;
+          break;
+        case '"':
+        case '`':
+        case '\'':
+          cls = "\"";
+          break;
+        case ',':
+          cls = ",";
+          break;
+        case ';':
+        case ':':
+          cls = ";";
+          break;
+        case '-':
+          cls = "--";
+          break;
+        case '(':
+        case '[':
+        case '{':
+          cls = "(";
+          break;
+        case ')':
+        case ']':
+        case '}':
+          cls = ")";
+          break;
+        default:
+          cls = "<p>";
+          break;
+      }
+    } else if (c == 0xE2 && i + 2 < w.size() && static_cast<unsigned char>(w[i + 1]) == 0x80) {
+      unsigned char d = static_cast<unsigned char>(w[i + 2]);
+      step = 3;
+      if (d == 0x98 || d == 0x99 || d == 0x9C || d == 0x9D) {
+        cls = "\"";  // ‘ ’ “ ”
+      } else if (d == 0x93 || d == 0x94) {
+        cls = "--";  // – —
+      } else if (d == 0xA6) {
+        cls = ".";  // …
+        stop = true;
+      } else {
+        return {};
+      }
+    } else {
+      return {};  // other non-ASCII: treat the token as a word
+    }
+    if (first_class.empty()) first_class = cls;
+    all_stops = all_stops && stop;
+    i += step;
+  }
+  if (first_class.empty()) return {};
+  if (all_stops) {
+    terminator = true;
+    return ".";
+  }
+  return first_class == "." ? std::string_view("<p>") : first_class;
+}
+
+void normalise(std::string_view w, Tok& out) {
+  out.is_word = false;
+  out.ends_sentence = false;
+  out.len = 0;
+  if (w.empty()) {
+    out.symbol = "<b>";
+    out.ends_sentence = true;
+    return;
+  }
+  if (w[0] >= '0' && w[0] <= '9') {
+    out.symbol = "<num>";
+    return;
+  }
+  bool term = false;
+  std::string_view p = punct_class(w, term);
+  if (!p.empty()) {
+    out.symbol = p;
+    out.ends_sentence = term;
+    return;
+  }
+  out.is_word = true;
+  size_t i = 0;
+  while (i < w.size()) {
+    unsigned char c = static_cast<unsigned char>(w[i]);
+    size_t clen = 1;
+    if (c >= 0xF0) {
+      clen = 4;
+    } else if (c >= 0xE0) {
+      clen = 3;
+    } else if (c >= 0xC0) {
+      clen = 2;
+    }
+    if (clen == 3 && i + 2 < w.size() && c == 0xE2 &&
+        static_cast<unsigned char>(w[i + 1]) == 0x80 &&
+        static_cast<unsigned char>(w[i + 2]) == 0x99) {
+      if (out.len + 1 > kMaxWordBytes) break;
+      out.buf[out.len++] = '\'';
+      i += 3;
+      continue;
+    }
+    if (clen > w.size() - i) clen = w.size() - i;
+    if (out.len + clen > kMaxWordBytes) break;
+    for (size_t k = 0; k < clen; ++k) {
+      char ch = w[i + k];
+      if (ch >= 'A' && ch <= 'Z') ch = char(ch - 'A' + 'a');
+      out.buf[out.len++] = ch;
+    }
+    i += clen;
+  }
+}
+
+// The last `n` characters (code points) of a folded word.
+std::string_view suffix(std::string_view w, size_t n) {
+  size_t pos = w.size();
+  while (pos > 0 && n > 0) {
+    --pos;
+    while (pos > 0 && (static_cast<unsigned char>(w[pos]) & 0xC0) == 0x80) --pos;
+    --n;
+  }
+  return w.substr(pos);
+}
+
+bool ends_with(std::string_view w, std::string_view s) {
+  return w.size() >= s.size() && w.substr(w.size() - s.size()) == s;
+}
+
+std::string_view shape(const Tok& t) {
+  if (!t.is_word) return t.symbol;
+  std::string_view w = t.text();
+  if (w.find('-') != std::string_view::npos) return "hyph";
+  if (ends_with(w, "'s") || ends_with(w, "s'")) return "gen";
+  if (ends_with(w, "ly")) return "ly";
+  if (ends_with(w, "ing")) return "ing";
+  if (ends_with(w, "ed")) return "ed";
+  if (ends_with(w, "s")) return "s";
+  return "x";
+}
+
+std::string_view category(const Tok& t) {
+  return t.is_word ? lexicon().cat(t.text()) : t.symbol;
+}
+
+// ---- Features -------------------------------------------------------------------------------
+
+// Builds one feature string at a time in a fixed buffer.
+class FeatureBuf {
+ public:
+  FeatureBuf& start(std::string_view prefix) {
+    len_ = 0;
+    return add(prefix);
+  }
+  FeatureBuf& add(std::string_view s) {
+    size_t n = std::min(s.size(), sizeof(data_) - len_);
+    std::copy_n(s.data(), n, data_ + len_);
+    len_ += n;
+    return *this;
+  }
+  std::string_view view() const { return {data_, len_}; }
+
+ private:
+  char data_[3 * kMaxWordBytes + 32];
+  size_t len_ = 0;
+};
+
+// Calls emit(std::string_view) once per feature of words[i] (i < words.size()).
+template <typename WordClass, typename Emit>
+void extract_features(std::span<const std::string_view> words, size_t i, Target target,
+                      const WordClass& word_class, Emit&& emit) {
+  static const std::string_view kStart = "<s>";
+  static const std::string_view kEnd = "</s>";
+  // Window: [0]=i-2, [1]=i-1, [2]=i+1, [3]=i+2.
+  Tok win[4];
+  // Left: stop at the start or at a sentence boundary (which itself counts as the start).
+  bool stopped = false;
+  for (int k = 1; k <= 2; ++k) {
+    Tok& t = win[2 - k];
+    if (stopped || i < static_cast<size_t>(k)) {
+      t.is_word = false;
+      t.symbol = kStart;
+      stopped = true;
+      continue;
+    }
+    normalise(words[i - k], t);
+    if (t.ends_sentence) {
+      t.is_word = false;
+      t.symbol = kStart;
+      stopped = true;
+    }
+  }
+  // Right: a sentence-ending token is seen, everything after it is the end.
+  stopped = false;
+  for (int k = 1; k <= 2; ++k) {
+    Tok& t = win[1 + k];
+    if (stopped || i + k >= words.size()) {
+      t.is_word = false;
+      t.symbol = kEnd;
+      stopped = true;
+      continue;
+    }
+    normalise(words[i + k], t);
+    if (t.ends_sentence) {
+      stopped = true;
+      if (!t.is_word && t.symbol == "<b>") t.symbol = kEnd;
+    }
+  }
+  const Tok& p2 = win[0];
+  const Tok& p1 = win[1];
+  const Tok& n1 = win[2];
+  const Tok& n2 = win[3];
+
+  FeatureBuf f;
+  emit(f.start("T:").add(target_name(target)).view());
+  emit(f.start("p1:").add(p1.text()).view());
+  emit(f.start("p2:").add(p2.text()).view());
+  emit(f.start("n1:").add(n1.text()).view());
+  emit(f.start("n2:").add(n2.text()).view());
+  emit(f.start("pn:").add(p1.text()).add("|").add(n1.text()).view());
+  emit(f.start("nn:").add(n1.text()).add("|").add(n2.text()).view());
+  emit(f.start("pp:").add(p2.text()).add("|").add(p1.text()).view());
+  if (n1.is_word) {
+    emit(f.start("s2n:").add(suffix(n1.text(), 2)).view());
+    emit(f.start("s3n:").add(suffix(n1.text(), 3)).view());
+  }
+  if (p1.is_word) {
+    emit(f.start("s2p:").add(suffix(p1.text(), 2)).view());
+    emit(f.start("s3p:").add(suffix(p1.text(), 3)).view());
+  }
+  std::string_view cp2 = category(p2), cp1 = category(p1), cn1 = category(n1), cn2 = category(n2);
+  emit(f.start("hn:").add(shape(n1)).view());
+  emit(f.start("hp:").add(shape(p1)).view());
+  emit(f.start("cp:").add(cp1).view());
+  emit(f.start("cn:").add(cn1).view());
+  emit(f.start("cn2:").add(cn2).view());
+  emit(f.start("cpn:").add(cp1).add("|").add(cn1).view());
+  emit(f.start("cnn:").add(cn1).add("|").add(cn2).view());
+  emit(f.start("cpp:").add(cp2).add("|").add(cp1).view());
+  emit(f.start("cpnn:").add(cp1).add("|").add(cn1).add("|").add(cn2).view());
+  emit(f.start("p1cn:").add(p1.text()).add("|").add(cn1).view());
+  emit(f.start("cpn1:").add(cp1).add("|").add(n1.text()).view());
+  auto wclass = [&](const Tok& t, size_t pos) {
+    return t.is_word ? word_class(pos, t.text()) : t.symbol;
+  };
+  std::string_view wp1 = wclass(p1, i - 1), wn1 = wclass(n1, i + 1), wn2 = wclass(n2, i + 2);
+  emit(f.start("wn:").add(wn1).view());
+  emit(f.start("wn2:").add(wn2).view());
+  emit(f.start("wp:").add(wp1).view());
+  emit(f.start("wnn:").add(wn1).add("|").add(wn2).view());
+  emit(f.start("wpn:").add(wp1).add("|").add(wn1).view());
+  emit(f.start("cpwn:").add(cp1).add("|").add(wn1).view());
+}
+
+// Chooses the best allowed class; ties go to the lower class index.
+Decision choose(const std::array<int64_t, 3>& scores, unsigned allowed, int64_t scale) {
+  int best = -1, second = -1;
+  for (int k = 0; k < kClassCount; ++k) {
+    if (!(allowed & (1u << k))) continue;
+    if (best < 0 || scores[k] > scores[best]) {
+      second = best;
+      best = k;
+    } else if (second < 0 || scores[k] > scores[second]) {
+      second = k;
+    }
+  }
+  Decision d;
+  d.kind = static_cast<Decision::Kind>(best);
+  if (second >= 0) {
+    d.score = static_cast<float>(static_cast<double>(scores[best] - scores[second]) /
+                                 static_cast<double>(scale));
+  }
+  return d;
+}
+
+// ---- Parsing helpers ------------------------------------------------------------------------
+
+Error model_error(std::string_view label, uint64_t line, std::string reason) {
+  Error e = make_error(ErrorKind::pack, std::string(label.empty() ? "possessive model" : label),
+                       std::move(reason));
+  e.line = line;
+  return e;
+}
+
+bool parse_int(std::string_view s, int64_t& out) {
+  if (s.empty()) return false;
+  auto [ptr, ec] = std::from_chars(s.data(), s.data() + s.size(), out);
+  return ec == std::errc() && ptr == s.data() + s.size();
+}
+
+}  // namespace
+
+const char* decision_kind_name(Decision::Kind kind) {
+  switch (kind) {
+    case Decision::determiner:
+      return "determiner";
+    case Decision::object:
+      return "object";
+    case Decision::standalone:
+      return "standalone";
+  }
+  return "determiner";
+}
+
+Result<std::shared_ptr<const PossessiveModel>> PossessiveModel::parse(std::string_view text,
+                                                                      std::string_view label) {
+  std::shared_ptr<PossessiveModel> model(new PossessiveModel());
+  size_t pos = 0;
+  uint64_t line_no = 0;
+  auto next_line = [&](std::string_view& line) {
+    if (pos >= text.size()) return false;
+    size_t end = text.find('\n', pos);
+    if (end == std::string_view::npos) end = text.size();
+    line = text.substr(pos, end - pos);
+    if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
+    pos = end + 1;
+    ++line_no;
+    return true;
+  };
+
+  std::string_view line;
+  if (!next_line(line) || line != kMagic) {
+    return model_error(
+        label, 1, "not a possessive model (the first line must be '" + std::string(kMagic) + "')");
+  }
+  bool have_scale = false, have_classes = false, have_words = false;
+  int64_t feature_total = -1;
+  while (feature_total < 0) {
+    if (!next_line(line)) return model_error(label, line_no, "header ends before 'features N'");
+    if (line.empty() || line[0] == '#') continue;
+    size_t sp = line.find(' ');
+    std::string_view key = line.substr(0, sp);
+    std::string_view value =
+        sp == std::string_view::npos ? std::string_view() : line.substr(sp + 1);
+    if (key == "scale") {
+      if (!parse_int(value, model->scale_) || model->scale_ <= 0) {
+        return model_error(label, line_no, "scale must be a positive integer");
+      }
+      have_scale = true;
+    } else if (key == "classes") {
+      if (value != kClasses) {
+        return model_error(label, line_no, "classes must be '" + std::string(kClasses) + "'");
+      }
+      have_classes = true;
+    } else if (key == "words") {
+      int64_t n = 0;
+      if (!parse_int(value, n) || n < 0) {
+        return model_error(label, line_no, "words must be a non-negative integer");
+      }
+      if (have_words) return model_error(label, line_no, "a second 'words' section");
+      have_words = true;
+      model->word_classes_.reserve(static_cast<size_t>(n));
+      for (int64_t k = 0; k < n; ++k) {
+        if (!next_line(line)) {
+          return model_error(
+              label, line_no,
+              "file ends after " + std::to_string(k) + " of " + std::to_string(n) + " words");
+        }
+        size_t tab = line.find('\t');
+        if (tab == 0 || tab == std::string_view::npos || tab + 1 == line.size() ||
+            line.find_first_of(" \t", tab + 1) != std::string_view::npos) {
+          return model_error(label, line_no, "a word line is: word, a tab, its class");
+        }
+        if (!model->word_classes_
+                 .emplace(std::string(line.substr(0, tab)), std::string(line.substr(tab + 1)))
+                 .second) {
+          return model_error(label, line_no,
+                             "word '" + std::string(line.substr(0, tab)) + "' is listed twice");
+        }
+      }
+    } else if (key == "features") {
+      int64_t n = 0;
+      if (!parse_int(value, n) || n < 0) {
+        return model_error(label, line_no, "features must be a non-negative integer");
+      }
+      if (!have_scale || !have_classes || !have_words) {
+        return model_error(label, line_no,
+                           "'scale', 'classes' and 'words' must come before 'features'");
+      }
+      feature_total = n;
+    } else {
+      return model_error(label, line_no, "unknown header line '" + std::string(key) + "'");
+    }
+  }
+  model->weights_.reserve(static_cast<size_t>(feature_total));
+  for (int64_t k = 0; k < feature_total; ++k) {
+    if (!next_line(line)) {
+      return model_error(label, line_no,
+                         "file ends after " + std::to_string(k) + " of " +
+                             std::to_string(feature_total) + " features");
+    }
+    if (line == "end") {
+      return model_error(label, line_no,
+                         "'end' after " + std::to_string(k) + " of " +
+                             std::to_string(feature_total) + " features");
+    }
+    std::string_view fields[5];
+    size_t nfields = 0, start = 0;
+    while (nfields < 5) {
+      size_t tab = line.find('\t', start);
+      fields[nfields++] = line.substr(start, tab == std::string_view::npos ? tab : tab - start);
+      if (tab == std::string_view::npos) break;
+      start = tab + 1;
+    }
+    if (nfields != 4 || fields[0].empty()) {
+      return model_error(label, line_no,
+                         "a feature line is: feature, then 3 weights, separated by tabs");
+    }
+    std::array<int64_t, 3> w{};
+    for (int c = 0; c < kClassCount; ++c) {
+      if (!parse_int(fields[1 + c], w[c])) {
+        return model_error(label, line_no,
+                           "weight '" + std::string(fields[1 + c]) + "' is not an integer");
+      }
+    }
+    if (!model->weights_.emplace(std::string(fields[0]), w).second) {
+      return model_error(label, line_no,
+                         "feature '" + std::string(fields[0]) + "' is listed twice");
+    }
+  }
+  if (!next_line(line) || line != "end") {
+    return model_error(label, line_no, "expected 'end' after the features");
+  }
+  while (next_line(line)) {
+    if (!line.empty()) return model_error(label, line_no, "text after 'end'");
+  }
+  return std::shared_ptr<const PossessiveModel>(std::move(model));
+}
+
+Decision PossessiveModel::decide(std::span<const std::string_view> words, size_t i) const {
+  if (i >= words.size()) return Decision{};
+  Target target = target_of(words[i]);
+  if (target != Target::other) {
+    // A determiner needs a nominal after it: before , ; : . ! ? or the end of the sentence the
+    // word is the object ("saw her .") or the standalone possessive ("it was his .").
+    bool clause_ends = i + 1 >= words.size();
+    if (!clause_ends) {
+      Tok next;
+      normalise(words[i + 1], next);
+      clause_ends =
+          !next.is_word && (next.ends_sentence || next.symbol == "," || next.symbol == ";");
+    }
+    if (clause_ends) {
+      return Decision{target == Target::her ? Decision::object : Decision::standalone, kRuleScore};
+    }
+  }
+  std::array<int64_t, 3> scores{};
+  auto word_class = [this](size_t, std::string_view w) {
+    auto it = word_classes_.find(w);
+    return it == word_classes_.end() ? std::string_view("?") : std::string_view(it->second);
+  };
+  extract_features(words, i, target, word_class, [&](std::string_view f) {
+    auto it = weights_.find(f);
+    if (it == weights_.end()) return;
+    for (int k = 0; k < kClassCount; ++k) scores[k] += it->second[k];
+  });
+  return choose(scores, allowed_classes(target), scale_);
+}
+
+std::string train_possessive_model(std::span<const PossessiveExample> examples,
+                                   const PossessiveTrainOptions& options) {
+  // Word classes that can be written (no white space in either part) and can be looked up
+  // (the word is a word to the features, already in folded form).
+  auto writable = [](const std::string& s) {
+    return !s.empty() && s.find_first_of(" \t\r\n") == std::string::npos;
+  };
+  std::unordered_map<std::string_view, std::string_view> classes;
+  for (const auto& [word, cls] : options.word_classes) {
+    if (!writable(word) || !writable(cls)) continue;
+    Tok t;
+    normalise(word, t);
+    if (t.is_word && t.text() == word) classes.emplace(word, cls);
+  }
+  const PossessiveExample* current = nullptr;
+  auto word_class = [&](size_t pos, std::string_view w) {
+    if (!current->classes.empty()) {
+      if (pos < current->classes.size() && !current->classes[pos].empty()) {
+        return std::string_view(current->classes[pos]);
+      }
+      return std::string_view("?");
+    }
+    auto it = classes.find(w);
+    return it == classes.end() ? std::string_view("?") : it->second;
+  };
+
+  // Intern the features of every example once.
+  std::unordered_map<std::string, uint32_t> ids;
+  std::vector<std::string> names;
+  std::vector<uint32_t> seen;  // examples per feature
+  std::vector<std::vector<uint32_t>> feats(examples.size());
+  std::vector<unsigned> allowed(examples.size());
+  std::vector<std::string_view> view;
+  for (size_t e = 0; e < examples.size(); ++e) {
+    const PossessiveExample& ex = examples[e];
+    if (ex.index >= ex.words.size()) continue;
+    view.assign(ex.words.begin(), ex.words.end());
+    current = &ex;
+    Target target = target_of(view[ex.index]);
+    allowed[e] = allowed_classes(target) | (1u << ex.gold);
+    extract_features(view, ex.index, target, word_class, [&](std::string_view f) {
+      auto [it, fresh] = ids.emplace(std::string(f), static_cast<uint32_t>(names.size()));
+      if (fresh) {
+        names.emplace_back(f);
+        seen.push_back(0);
+      }
+      std::vector<uint32_t>& list = feats[e];
+      if (std::find(list.begin(), list.end(), it->second) == list.end()) {
+        list.push_back(it->second);
+        ++seen[it->second];
+      }
+    });
+  }
+  if (options.min_feature_count > 1) {
+    for (auto& list : feats) {
+      std::erase_if(list, [&](uint32_t id) {
+        return seen[id] < static_cast<uint32_t>(options.min_feature_count);
+      });
+    }
+  }
+
+  // Averaged perceptron, integer form: w = current weights, u = sum of c * update.
+  std::vector<std::array<int64_t, 3>> w(names.size(), {0, 0, 0}), u(names.size(), {0, 0, 0});
+  int64_t c = 1;
+  std::vector<size_t> order;
+  for (size_t e = 0; e < examples.size(); ++e) {
+    if (!feats[e].empty()) order.push_back(e);
+  }
+  std::mt19937_64 rng(options.seed);  // the standard fixes its output sequence
+  for (int epoch = 0; epoch < options.epochs; ++epoch) {
+    for (size_t k = order.size(); k > 1; --k) {
+      size_t j = static_cast<size_t>(rng() % k);
+      std::swap(order[k - 1], order[j]);
+    }
+    for (size_t e : order) {
+      std::array<int64_t, 3> scores{};
+      for (uint32_t f : feats[e]) {
+        for (int k = 0; k < kClassCount; ++k) scores[k] += w[f][k];
+      }
+      int pred = choose(scores, allowed[e], 1).kind;
+      int gold = examples[e].gold;
+      if (pred != gold) {
+        for (uint32_t f : feats[e]) {
+          w[f][gold] += 1;
+          u[f][gold] += c;
+          w[f][pred] -= 1;
+          u[f][pred] -= c;
+        }
+      }
+      ++c;
+    }
+  }
+
+  std::vector<uint32_t> kept;
+  std::vector<std::array<int64_t, 3>> avg(names.size());
+  for (uint32_t f = 0; f < names.size(); ++f) {
+    bool nonzero = false;
+    for (int k = 0; k < kClassCount; ++k) {
+      avg[f][k] = c * w[f][k] - u[f][k];
+      nonzero = nonzero || avg[f][k] != 0;
+    }
+    // Tabs and line breaks cannot occur in a feature line.
+    if (nonzero && names[f].find_first_of("\t\r\n") == std::string::npos) kept.push_back(f);
+  }
+  std::sort(kept.begin(), kept.end(), [&](uint32_t a, uint32_t b) { return names[a] < names[b]; });
+
+  std::string out;
+  out += kMagic;
+  out += '\n';
+  size_t pos = 0;
+  while (pos < options.comment.size()) {
+    size_t end = options.comment.find('\n', pos);
+    if (end == std::string::npos) end = options.comment.size();
+    out += "# ";
+    out.append(options.comment, pos, end - pos);
+    out += '\n';
+    pos = end + 1;
+  }
+  out += "scale " + std::to_string(c) + "\n";
+  out += "classes ";
+  out += kClasses;
+  out += '\n';
+  size_t written = 0;
+  for (const auto& [word, cls] : options.word_classes) written += classes.count(word);
+  out += "words " + std::to_string(written) + "\n";
+  for (const auto& [word, cls] : options.word_classes) {
+    if (!classes.count(word)) continue;
+    out += word;
+    out += '\t';
+    out += cls;
+    out += '\n';
+  }
+  out += "features " + std::to_string(kept.size()) + "\n";
+  for (uint32_t f : kept) {
+    out += names[f];
+    for (int k = 0; k < kClassCount; ++k) {
+      out += '\t';
+      out += std::to_string(avg[f][k]);
+    }
+    out += '\n';
+  }
+  out += "end\n";
+  return out;
+}
+
+}  // namespace evenhand::rewrite
