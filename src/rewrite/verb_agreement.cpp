@@ -1,0 +1,345 @@
+#include "rewrite/verb_agreement.h"
+
+#include <algorithm>
+#include <array>
+#include <utility>
+
+namespace evenhand::rewrite {
+
+namespace {
+
+constexpr std::string_view kFormatLine = "format evenhand-verbs 1";
+constexpr std::string_view kCurly = "\xE2\x80\x99";  // U+2019 RIGHT SINGLE QUOTATION MARK
+
+// "be" and the contracted negatives: person and number show in the form itself, so they are
+// listed here rather than derived (from memory, general knowledge of English).
+constexpr std::array<std::pair<std::string_view, std::string_view>, 6> kPluralOf = {{
+    {"is", "are"},
+    {"was", "were"},
+    {"isn't", "aren't"},
+    {"wasn't", "weren't"},
+    {"doesn't", "don't"},
+    {"hasn't", "haven't"},
+}};
+
+// Tokens that keep their form after a plural subject (from memory): the modals, "need" and
+// "dare" used as modals ("she need not"), their negatives, the past negatives, the
+// subjunctive "were" ("if she were"), the participles of "be", and "ain't".
+constexpr std::array<std::string_view, 31> kUnchanged = {
+    "can",      "could",  "will",      "would",    "shall",   "should",   "may",      "might",
+    "must",     "ought",  "need",      "dare",     "cannot",  "can't",    "couldn't", "won't",
+    "wouldn't", "shan't", "shouldn't", "mightn't", "mustn't", "oughtn't", "needn't",  "daren't",
+    "didn't",   "hadn't", "weren't",   "were",     "been",    "being",    "ain't",
+};
+
+// Forms of "be" that are not third-person singular present: after "she" they are an error or
+// dialect, and the table cannot tell what was meant.
+constexpr std::array<std::string_view, 4> kNotThird = {"am", "are", "aren't", "be"};
+
+// Pasts that mark "'s" as "has" whatever follows ("she's been", "she's got", "she's had").
+constexpr std::array<std::string_view, 4> kHaveOnly = {"been", "got", "gotten", "had"};
+
+// Words after a past form that show it takes an object, so "'s" is "has" ("she's finished
+// the report"): determiners, object and reflexive pronouns, numbers (common practice).
+constexpr std::array<std::string_view, 52> kObjectLike = {
+    "a",          "an",        "the",      "this",     "these",   "those",   "my",
+    "your",       "his",       "her",      "its",      "our",     "their",   "him",
+    "them",       "me",        "us",       "it",       "some",    "any",     "every",
+    "each",       "no",        "both",     "several",  "many",    "another", "everything",
+    "something",  "nothing",   "anything", "everyone", "someone", "herself", "himself",
+    "themselves", "itself",    "myself",   "one",      "two",     "three",   "four",
+    "five",       "six",       "seven",    "eight",    "nine",    "ten",     "dozens",
+    "hundreds",   "thousands", "lots",
+};
+
+// Adverbs that may stand between a subject and its verb (common practice).
+constexpr std::array<std::string_view, 24> kPreverbal = {
+    "not",       "never",   "always", "often", "also",   "still",  "just",   "already",
+    "ever",      "seldom",  "only",   "even",  "soon",   "then",   "now",    "once",
+    "sometimes", "perhaps", "maybe",  "thus",  "rather", "hardly", "almost", "again",
+};
+
+template <size_t N>
+bool in(const std::array<std::string_view, N>& list, std::string_view w) {
+  return std::find(list.begin(), list.end(), w) != list.end();
+}
+
+bool valid_form(std::string_view w) {
+  if (w.empty()) return false;
+  for (char c : w) {
+    if (!((c >= 'a' && c <= 'z') || c == '\'')) return false;
+  }
+  return true;
+}
+
+bool starts_with_letter(std::string_view w) {
+  if (w.empty()) return false;
+  unsigned char c = static_cast<unsigned char>(w[0]);
+  return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || c >= 0x80;
+}
+
+bool is_number(std::string_view w) {
+  return !w.empty() && w[0] >= '0' && w[0] <= '9';
+}
+
+std::vector<std::string_view> split(std::string_view s, char sep) {
+  std::vector<std::string_view> out;
+  size_t start = 0;
+  while (true) {
+    size_t end = s.find(sep, start);
+    out.push_back(s.substr(start, end == std::string_view::npos ? s.npos : end - start));
+    if (end == std::string_view::npos) break;
+    start = end + 1;
+  }
+  return out;
+}
+
+// `s` with every `from` replaced by `to`.
+std::string replace_all(std::string_view s, std::string_view from, std::string_view to) {
+  std::string out;
+  size_t start = 0;
+  while (true) {
+    size_t pos = s.find(from, start);
+    if (pos == std::string_view::npos) break;
+    out.append(s.substr(start, pos - start));
+    out.append(to);
+    start = pos + from.size();
+  }
+  out.append(s.substr(start));
+  return out;
+}
+
+VerbTable::Contraction decided(VerbTable::Contraction::Kind kind, std::string reason) {
+  VerbTable::Contraction c;
+  c.kind = kind;
+  c.lean = kind;
+  c.reason = std::move(reason);
+  return c;
+}
+
+VerbTable::Contraction undecided(VerbTable::Contraction::Kind lean, std::string reason) {
+  VerbTable::Contraction c;
+  c.kind = VerbTable::Contraction::unknown;
+  c.lean = lean;
+  c.reason = std::move(reason);
+  return c;
+}
+
+}  // namespace
+
+const VerbTable::Entry* VerbTable::find(std::string_view folded) const {
+  auto it = words_.find(folded);
+  return it == words_.end() ? nullptr : &it->second;
+}
+
+VerbTable::Entry& VerbTable::add(std::string_view form) {
+  auto it = words_.find(form);
+  if (it != words_.end()) return it->second;
+  return words_.emplace(std::string(form), Entry{}).first->second;
+}
+
+Result<std::shared_ptr<const VerbTable>> VerbTable::parse(std::string_view text, std::string file) {
+  std::shared_ptr<VerbTable> table(new VerbTable());
+  uint64_t line_no = 0;
+  bool have_format = false;
+  auto fail = [&](std::string reason) {
+    Error e = make_error(ErrorKind::pack, file, std::move(reason));
+    e.line = line_no;
+    return e;
+  };
+  size_t pos = 0;
+  while (pos < text.size()) {
+    size_t end = text.find('\n', pos);
+    std::string_view line = text.substr(pos, end == text.npos ? text.npos : end - pos);
+    pos = end == text.npos ? text.size() : end + 1;
+    ++line_no;
+    if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
+    if (line.empty() || line[0] == '#') continue;
+    if (!have_format) {
+      if (line != kFormatLine) {
+        return fail("the first record must be '" + std::string(kFormatLine) + "', found '" +
+                    std::string(line) + "'");
+      }
+      have_format = true;
+      continue;
+    }
+    std::vector<std::string_view> fields = split(line, ' ');
+    if (fields[0] == "v") {
+      if (fields.size() != 5) {
+        return fail("a 'v' record has 5 fields (v LEMMA 3SG PAST ING), found " +
+                    std::to_string(fields.size()));
+      }
+      std::string_view lemma = fields[1];
+      if (!valid_form(lemma)) return fail("bad lemma '" + std::string(lemma) + "'");
+      Entry& base = table->add(lemma);
+      if (base.flags & kBase) return fail("lemma '" + std::string(lemma) + "' listed twice");
+      base.flags |= kBase;
+      uint32_t index = static_cast<uint32_t>(table->lemmas_.size());
+      table->lemmas_.emplace_back(lemma);
+      static constexpr std::array<uint8_t, 3> kKinds = {kThird, kPast, kIng};
+      for (size_t k = 0; k < 3; ++k) {
+        for (std::string_view form : split(fields[2 + k], ',')) {
+          if (!valid_form(form)) {
+            return fail("bad form '" + std::string(form) + "' of lemma '" + std::string(lemma) +
+                        "'");
+          }
+          Entry& e = table->add(form);
+          e.flags |= kKinds[k];
+          if (kKinds[k] != kThird) continue;
+          if (e.third_lemmas == 0) {
+            e.lemma = index;
+            e.third_lemmas = 1;
+          } else if (e.lemma != index && e.third_lemmas == 1) {
+            e.other_lemma = index;
+            e.third_lemmas = 2;
+          }
+        }
+      }
+    } else if (fields[0] == "a") {
+      if (fields.size() != 2) {
+        return fail("an 'a' record has 2 fields (a FORM), found " + std::to_string(fields.size()));
+      }
+      auto it = table->words_.find(fields[1]);
+      if (it == table->words_.end() || !(it->second.flags & kPast)) {
+        return fail("'" + std::string(fields[1]) +
+                    "' is marked as an adjective but is not a past form of an earlier 'v' record");
+      }
+      it->second.flags |= kAdjPast;
+    } else {
+      return fail("unknown record type '" + std::string(fields[0]) + "'");
+    }
+  }
+  if (!have_format) {
+    line_no = 0;
+    return fail("no '" + std::string(kFormatLine) + "' record");
+  }
+  return std::shared_ptr<const VerbTable>(std::move(table));
+}
+
+Result<std::shared_ptr<const VerbTable>> VerbTable::from_pack(const pack::CompiledPack& pack) {
+  const std::string* text = pack.file("verbs.data");
+  if (text == nullptr) {
+    return make_error(ErrorKind::pack, pack.name(), "the pack has no verbs.data file");
+  }
+  return parse(*text, "verbs.data");
+}
+
+VerbTable::Answer VerbTable::pluralize(std::string_view token) const {
+  bool curly = token.find(kCurly) != std::string_view::npos;
+  std::string normalized;
+  std::string_view w = token;
+  if (curly) {
+    normalized = replace_all(token, kCurly, "'");
+    w = normalized;
+  }
+  Answer a;
+  auto result = [&](Answer::Kind kind, std::string_view form, std::string reason) {
+    a.kind = kind;
+    a.form = curly ? replace_all(form, "'", kCurly) : std::string(form);
+    a.reason = std::move(reason);
+    return a;
+  };
+  for (const auto& [singular, plural] : kPluralOf) {
+    if (w == singular) return result(Answer::plural, plural, "");
+  }
+  if (in(kUnchanged, w)) {
+    return result(Answer::unchanged, token, "modal, past or participle with no number");
+  }
+  if (in(kNotThird, w)) {
+    return result(Answer::unknown, "", "'" + std::string(w) + "' is not third-person singular");
+  }
+  const Entry* e = find(w);
+  if (e != nullptr && (e->flags & kThird)) {
+    const std::string& lemma = lemmas_[e->lemma];
+    if (e->third_lemmas > 1) {
+      return result(
+          Answer::unknown, "",
+          "'" + std::string(w) + "' has two lemmas: " + lemma + ", " + lemmas_[e->other_lemma]);
+    }
+    if (e->flags & kBase) {
+      return result(
+          Answer::unknown, "",
+          "'" + std::string(w) + "' is the 3sg form of '" + lemma + "' and a lemma itself");
+    }
+    return result(Answer::plural, lemma, "");
+  }
+  if (e != nullptr && (e->flags & kPast)) {
+    return result(Answer::unchanged, token, "past tense or participle");
+  }
+  if (e != nullptr && (e->flags & kIng)) {
+    return result(Answer::unchanged, token, "present participle");
+  }
+  if (e != nullptr && (e->flags & kBase)) {
+    return result(Answer::unknown, "",
+                  "'" + std::string(w) + "' is a base form, not third-person singular present");
+  }
+  return result(Answer::unknown, "", "'" + std::string(w) + "' is not a verb form the table knows");
+}
+
+VerbTable::Contraction VerbTable::resolve_s(std::span<const std::string_view> following) const {
+  size_t i = 0;
+  for (size_t skipped = 0; i < following.size() && skipped < 3; ++i, ++skipped) {
+    if (!is_preverbal_adverb(following[i])) break;
+  }
+  if (i >= following.size() || !starts_with_letter(following[i])) {
+    return decided(Contraction::are, "no verb form follows");
+  }
+  std::string_view w = following[i];
+  std::string normalized;
+  if (w.find(kCurly) != std::string_view::npos) {
+    normalized = replace_all(w, kCurly, "'");
+    w = normalized;
+  }
+  if (in(kHaveOnly, w)) return decided(Contraction::have, "'" + std::string(w) + "' follows");
+  const Entry* e = find(w);
+  if (e == nullptr || !(e->flags & kPast)) {
+    return decided(Contraction::are, "'" + std::string(w) + "' is not a past participle");
+  }
+  std::string_view next = i + 1 < following.size() ? following[i + 1] : std::string_view();
+  bool object = in(kObjectLike, next) || is_number(next);
+  if (e->flags & kAdjPast) {
+    if (object) {
+      return decided(Contraction::have, "past participle '" + std::string(w) +
+                                            "' with an object ('" + std::string(next) + "')");
+    }
+    return undecided(Contraction::are,
+                     "'" + std::string(w) + "' is a past participle and an adjective: is or has");
+  }
+  if (next == "to" || next == "by") {
+    return undecided(Contraction::have, "past participle '" + std::string(w) + "' before '" +
+                                            std::string(next) + "' may be passive: is or has");
+  }
+  return decided(Contraction::have, "past participle '" + std::string(w) + "'");
+}
+
+bool VerbTable::is_past_participle(std::string_view folded) const {
+  if (folded == "been") return true;
+  const Entry* e = find(folded);
+  return e != nullptr && (e->flags & kPast);
+}
+
+bool VerbTable::is_present_participle(std::string_view folded) const {
+  if (folded == "being") return true;
+  const Entry* e = find(folded);
+  return e != nullptr && (e->flags & kIng);
+}
+
+bool VerbTable::is_base_form(std::string_view folded) const {
+  if (folded == "be") return true;
+  const Entry* e = find(folded);
+  return e != nullptr && (e->flags & kBase);
+}
+
+bool VerbTable::is_third_singular(std::string_view folded) const {
+  if (folded == "is") return true;
+  const Entry* e = find(folded);
+  return e != nullptr && (e->flags & kThird);
+}
+
+bool VerbTable::is_preverbal_adverb(std::string_view folded) const {
+  if (in(kPreverbal, folded)) return true;
+  if (folded.size() < 4 || folded.substr(folded.size() - 2) != "ly") return false;
+  return find(folded) == nullptr;  // "really", "usually"; not "apply", "rely", "fly"
+}
+
+}  // namespace evenhand::rewrite
