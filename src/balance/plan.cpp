@@ -464,9 +464,8 @@ std::string share_text(const Vec& x, size_t i, const Plan& plan) {
   double T = 0;
   for (double v : x) T += v;
   const double p = plan.outcome[i].target_share;
-  return "the " + std::string(basis_name(plan.basis)) + " share of '" + plan.target[i].group +
-         "' is " + fmt(T > 0 ? x[i] / T : 0) + " (target " + fmt(p) + " +- " + fmt(plan.tolerance) +
-         ")";
+  return "the share of '" + plan.target[i].group + "' by " + basis_name(plan.basis) + " is " +
+         fmt(T > 0 ? x[i] / T : 0) + " (target " + fmt(p) + " +- " + fmt(plan.tolerance) + ")";
 }
 
 std::string allowed_text(const PlanOptions& o) {
@@ -651,9 +650,9 @@ Result<Plan> make_plan(const Tally& tally, const PlanOptions& options, Infeasibi
                                                " it: no record's counterfactual moves " +
                                                basis_name(options.basis) + " that way");
     return fail(Infeasibility::not_enough,
-                "target not reachable: " + what + ", and even changing all " +
-                    std::to_string(helpers) + " records that would " + dir +
-                    " it falls short (allowed: " + allowed_text(options) + ")");
+                "target not reachable: " + what + ", and even changing every record that " +
+                    "would " + dir + " it (" + std::to_string(helpers) +
+                    " of them) falls short (allowed: " + allowed_text(options) + ")");
   }
 
   // ---- Greedy, then the exact search when the greedy is not proven minimal ----
