@@ -46,7 +46,7 @@ struct RecordResult {
   const pack::Guard* guard = nullptr;  // set when a guard phrase blocked the rewrite
   uint32_t protected_spans = 0;        // mentions skipped because they sat in protected spans
   uint32_t ambiguous = 0;              // context decisions with a low margin
-  std::vector<uint32_t> entry_hits;    // indices of the sets/names that fired, one per edit
+  std::vector<uint32_t> entry_hits;    // sets/names that fired, one per non-agreement edit
 
   bool has_mentions() const;
   void clear();

@@ -14,6 +14,7 @@
 #include <unordered_map>
 
 #include "pack/pack.h"
+#include "rewrite/article.h"
 #include "rewrite/engine.h"
 #include "rewrite/possessive.h"
 #include "text/case.h"
@@ -78,6 +79,9 @@ class LexiconWorker final : public Worker {
   bool phrase_at(const PhraseIndex& idx, size_t k, const PhraseIndex::Phrase** hit,
                  size_t* len) const;
   bool sentence_start(size_t k) const;
+  // Re-chooses "a"/"an" at item k-1 when the word at k becomes `next_word` (English).
+  void article_agreement(uint32_t field, std::string_view text, size_t k,
+                         std::string_view next_word, RecordResult& out);
   // True when the name at item k follows a title or another first name (so is a surname).
   bool surname_position(size_t k) const;
   bool is_protected(uint32_t begin, uint32_t end) const;
@@ -220,6 +224,22 @@ bool LexiconWorker::sentence_start(size_t k) const {
   std::string_view prev = folded(k - 1);
   return prev == "." || prev == "!" || prev == "?" || prev == "\"" || prev == ":" ||
          prev == "\xE2\x80\x9C";  // left double quotation mark
+}
+
+void LexiconWorker::article_agreement(uint32_t field, std::string_view text, size_t k,
+                                      std::string_view next_word, RecordResult& out) {
+  if (k == 0 || e_.pack_->language() != "en") return;
+  const Item& art = items_[k - 1];
+  if (art.kind != text::TokenKind::word || !is_indefinite_article(folded(k - 1))) return;
+  std::string_view chosen = choose_article(next_word);
+  if (chosen == folded(k - 1)) return;
+  Edit ed;
+  ed.field = field;
+  ed.begin = art.begin;
+  ed.end = art.end;
+  recase_article(text.substr(art.begin, art.end - art.begin), chosen, ed.replacement);
+  ed.reason = EditReason::agreement;
+  out.edits.push_back(std::move(ed));
 }
 
 bool LexiconWorker::surname_position(size_t k) const {
@@ -370,6 +390,7 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
         chosen->is_name ? static_cast<uint32_t>(pk.sets().size() + chosen->set) : chosen->set;
     ed.rule = chosen->is_name ? &pk.names()[chosen->set].where : &pk.sets()[chosen->set].where;
     if (ed.replacement != original) {
+      article_agreement(field, text, k, ed.replacement, out);
       out.edits.push_back(std::move(ed));
       out.entry_hits.push_back(hit);
     }

@@ -135,3 +135,25 @@ TEST_CASE("an engine works with a pack of three groups") {
   Rewriter toward(*p, o);
   REQUIRE(toward("ruby emerald sapphire") == "sapphire sapphire sapphire");
 }
+
+TEST_CASE("a and an are chosen again when the next word changes") {
+  // An invented two-group pack whose forms start with a vowel on one side only.
+  std::map<std::string, std::string> files = {
+      {"pack.txt",
+       "pack huts\nversion 0.1.0\nlanguage en\naxis shelter\ngroups snow wood\n"
+       "[sets]\nigloo | hut\nigloos | huts\nhourly | daily\n"}};
+  std::vector<pack::Diagnostic> diags;
+  auto p = pack::load_pack_files("huts", files, diags);
+  REQUIRE(p.ok());
+  Rewriter rw(*p);
+  REQUIRE(rw("They built a hut and an igloo.") == "They built an igloo and a hut.");
+  REQUIRE(rw("A hut stood there. AN IGLOO too.") == "An igloo stood there. A HUT too.");
+  // Silent h: "an hourly" <-> "a daily" (source: CMU Pronouncing Dictionary, "hourly" starts
+  // with the vowel AW; checked for every pack form in article_test.cpp).
+  REQUIRE(rw("an hourly bus") == "a daily bus");
+  REQUIRE(rw("some huts") == "some igloos");
+  bool agreement = false;
+  rw("a hut");
+  for (const auto& e : rw.result.edits) agreement |= e.reason == rewrite::EditReason::agreement;
+  REQUIRE(agreement);
+}
