@@ -198,6 +198,14 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
       return report(loaded.error());
     }
     pack = *loaded;
+    for (const auto& [key, value] : pack->meta()) {
+      if (key == "status" && value == "draft" && ro.mode != pipeline::Mode::passthrough) {
+        print_error("run: pack " + pack->name() +
+                    " is a draft (meta status draft in pack.txt): it validates, but it is not "
+                    "ready to rewrite text; see rules/README.md");
+        return kPack;
+      }
+    }
     if (ro.mode == pipeline::Mode::passthrough) {
       engine = rewrite::make_identity_engine();
     } else {

@@ -244,3 +244,13 @@ TEST_CASE("check reports every problem of a broken pack with file:line, and run 
   REQUIRE(ok.code == 0);
   REQUIRE(ok.out.find("ok") != std::string::npos);
 }
+
+TEST_CASE("run refuses a draft pack; check still validates it") {
+  TempDir d;
+  std::string in = d.file("in.jsonl");
+  write_file(in, "{\"text\":\"la niña\"}\n");
+  auto r = run(d, "run --pack es-gender --in " + in + " --out " + d.file("o.jsonl"));
+  REQUIRE(r.code == 5);
+  REQUIRE(r.err.find("draft") != std::string::npos);
+  REQUIRE(run(d, "check es-gender").code == 0);
+}
