@@ -101,6 +101,8 @@ class Person:
         self.kin = kin_pair[i] if kin_pair else ("sister" if f else "brother")
         self.Kin = cap(self.kin)
         self.job = job_pair[i] if job_pair else ""
+        # "a waiter", "an actor": the indefinite article that fits the job word.
+        self.a_job = ("an " if self.job[:1] in "aeiou" else "a ") + self.job if self.job else ""
         self.title = title or ("Mrs" if f else "Mr")
         self.addr = "madam" if f else "sir"
         self.Addr = cap(self.addr)
@@ -317,7 +319,7 @@ def chat_history(c):
     a = c.person(kin=[("grandmother", "grandfather")])
     b = c.person()
     m = qa(c, [
-        ("I'm researching my great-{a.kin}, who worked as a {a.job} in town in the 1950s. "
+        ("I'm researching my great-{a.kin}, who worked as {a.a_job} in town in the 1950s. "
          "Where should I start?",
          "The local history room keeps trade directories and electoral rolls. Ask for "
          "{b.formal}; {b.s} knows the collection well and can help you find where {a.s} "
@@ -362,7 +364,7 @@ def chat_bookclub(c):
          "finished."),
         ("What is the evening book club reading next? My {a.kin} wants to join but {a.s} is "
          "a slow reader.",
-         "Next up is a novel about a {b.job} who moves to the coast to start {b.p} life "
+         "Next up is a novel about {b.a_job} who moves to the coast to start {b.p} life "
          "again. Tell {a.o} the group reads one book every six weeks, so there's time."),
     ])
     return [(r, c.f(t, a=a, b=b)) for r, t in m]
