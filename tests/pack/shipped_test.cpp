@@ -1,6 +1,7 @@
 // The shipped English gender pack (rules/en-gender/, built into the binary): it loads cleanly,
 // is big enough, covers the definitional gender pairs in both directions, maps every form back
 // to where it came from, and spells every form as the hunspell en_US dictionary does.
+#include <unistd.h>
 #include <catch2/catch.hpp>
 #include <cstdio>
 #include <fstream>
@@ -199,7 +200,9 @@ TEST_CASE("every word of the shipped sets is in the hunspell en_US dictionary",
   REQUIRE(words.size() >= 300);
 
   std::string tmp =
-      (std::filesystem::temp_directory_path() / "evenhand_pack_hunspell_words.txt").string();
+      (std::filesystem::temp_directory_path() /
+       ("evenhand_pack_hunspell_words." + std::to_string(getpid()) + ".txt"))
+          .string();  // one file per process: ctest runs test cases in parallel
   {
     std::ofstream out(tmp);
     for (const auto& w : words) out << w << '\n';

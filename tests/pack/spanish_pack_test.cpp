@@ -1,6 +1,7 @@
 // The shipped Spanish gender pack (rules/es-gender/, built into the binary): it loads cleanly,
 // is big enough, maps the basic gender pairs and every form back to where it came from, its
 // data files are well formed and consistent, and every word is spelled as hunspell es_ES does.
+#include <unistd.h>
 #include <catch2/catch.hpp>
 #include <cstdio>
 #include <fstream>
@@ -74,7 +75,9 @@ bool ends_with(const std::string& s, const std::string& suffix) {
 // The words hunspell es_ES rejects among `words` (`hunspell -l` prints them one a line).
 std::set<std::string> hunspell_es_unknown(const std::set<std::string>& words) {
   std::string tmp =
-      (std::filesystem::temp_directory_path() / "evenhand_es_pack_hunspell_words.txt").string();
+      (std::filesystem::temp_directory_path() /
+       ("evenhand_es_pack_hunspell_words." + std::to_string(getpid()) + ".txt"))
+          .string();  // one file per process: ctest runs test cases in parallel
   {
     std::ofstream out(tmp);
     for (const auto& w : words) out << w << '\n';
