@@ -105,6 +105,7 @@ std::string render_manifest(const ManifestData& d) {
   w.key("kept").value(st.records_kept);
   w.key("replaced").value(st.records_replaced);
   w.key("added").value(st.records_added);
+  w.key("dropped").value(st.records_dropped);
   w.key("rejected").value(st.records_rejected);
   w.key("rejected_by_reason");
   write_counts(w, st.rejected_by_reason);
@@ -130,6 +131,9 @@ std::string render_manifest(const ManifestData& d) {
       w.key(groups[g]).begin_object();
       w.key("before");
       write_tally(w, g < st.before.size() ? st.before[g] : GroupTally{});
+      if (!d.planned_basis.empty() && g < d.planned.size() && d.planned[g] == d.planned[g]) {
+        w.key("planned").begin_object().key(d.planned_basis).value(d.planned[g]).end_object();
+      }
       w.key("after");
       write_tally(w, g < st.after.size() ? st.after[g] : GroupTally{});
       w.end_object();
@@ -158,6 +162,8 @@ std::string render_manifest(const ManifestData& d) {
   }
   w.end_array();
   w.end_object();
+
+  if (!d.balance_json.empty()) w.key("balance").raw(d.balance_json);
 
   w.key("rejections").begin_array();
   for (const auto& e : d.first_rejections) {

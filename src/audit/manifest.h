@@ -38,6 +38,11 @@ struct ManifestData {
   double seconds = 0;
   unsigned threads = 0;
   std::string started_at;  // UTC, ISO 8601
+  // Balance mode: the plan's expected total per group in its basis ("mentions" or
+  // "records"; empty: no plan), and a "balance" section as raw JSON (empty: none).
+  std::string planned_basis;
+  std::vector<double> planned;  // indexed like the pack's groups; NaN: not a target group
+  std::string balance_json;
 };
 
 // Returns the manifest as pretty-printed JSON text ending in a newline.

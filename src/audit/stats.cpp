@@ -18,6 +18,7 @@ void Stats::merge(const Stats& o) {
   records_kept += o.records_kept;
   records_replaced += o.records_replaced;
   records_added += o.records_added;
+  records_dropped += o.records_dropped;
   records_rejected += o.records_rejected;
   blank_lines += o.blank_lines;
   quarantined += o.quarantined;

@@ -12,7 +12,7 @@ namespace evenhand::audit {
 
 struct GroupTally {
   uint64_t mentions = 0;  // mentions of the group's forms and names
-  uint64_t records = 0;   // records with at least one mention of the group
+  uint64_t records = 0;   // records that mention the group more than any other group
 };
 
 struct Stats {
@@ -21,6 +21,7 @@ struct Stats {
   uint64_t records_kept = 0;      // written as read (no edit applied)
   uint64_t records_replaced = 0;  // written as their counterfactual instead of the original
   uint64_t records_added = 0;     // counterfactual copies added after their original
+  uint64_t records_dropped = 0;   // balance mode: left out by the plan
   uint64_t records_rejected = 0;  // bad records (skipped, quarantined, or the failing one)
   uint64_t blank_lines = 0;
   uint64_t quarantined = 0;  // rejected records copied to the quarantine file

@@ -7,6 +7,7 @@
 #include <string>
 #include <vector>
 
+#include "balance/plan.h"
 #include "base/status.h"
 #include "corpus/records.h"
 #include "io/sink.h"
@@ -19,6 +20,8 @@ enum class Mode {
   augment,      // every record with mentions is followed by its counterfactual copy
   substitute,   // a record with mentions is replaced by its counterfactual with probability rate
   passthrough,  // frame, validate and copy records (no rewriting); for checks and benchmarks
+  tally,        // count group mentions and counterfactual effects; writes no corpus
+  balance,      // apply a rebalancing plan: keep, flip, add or drop each record
 };
 
 enum class OnBadRecord { fail, skip, quarantine };
@@ -47,7 +50,8 @@ struct RunOptions {
   OnBadRecord on_bad = OnBadRecord::fail;
   size_t max_record_bytes = 16u << 20;
   io::SinkOptions output_options;
-  bool provenance = false;  // add the "_evenhand" member to every written JSONL record
+  bool provenance = false;              // add the "_evenhand" member to every written JSONL record
+  const balance::Plan* plan = nullptr;  // balance mode: the plan to apply (not owned)
 
   // Called from the writer thread, about four times a second.
   std::function<void(const Progress&)> on_progress;

@@ -139,12 +139,13 @@ struct RecordProcessor::Impl {
     out += '\n';
   }
 
+  // Adds a record's mentions, and the record itself to the group it mentions most (a tie
+  // or no mention counts toward no group), as the balance tally counts records.
   static void tally(std::vector<audit::GroupTally>& into, const rewrite::GroupCounts& counts) {
     if (into.size() < counts.size()) into.resize(counts.size());
-    for (size_t g = 0; g < counts.size(); ++g) {
-      into[g].mentions += counts[g];
-      if (counts[g] > 0) ++into[g].records;
-    }
+    for (size_t g = 0; g < counts.size(); ++g) into[g].mentions += counts[g];
+    int16_t lead = balance::lead_group(counts);
+    if (lead >= 0) ++into[static_cast<size_t>(lead)].records;
   }
 
   Status process(std::string_view record, std::string_view eol, const RecordOrigin& origin,
@@ -207,13 +208,35 @@ struct RecordProcessor::Impl {
     st.ambiguous += result.ambiguous;
 
     bool can_rewrite = mentions && !result.guard && !result.edits.empty();
-    bool replace = false, add = false;
+    if (options.mode == Mode::tally) {
+      if (out.tally) out.tally->add(result);
+      return ok_status();
+    }
+    bool replace = false, add = false, drop = false;
     if (can_rewrite) {
       if (options.mode == Mode::augment) {
         add = true;
       } else if (options.mode == Mode::substitute) {
         replace = hash_unit(stable_hash(options.seed, identity)) < options.rate;
+      } else if (options.mode == Mode::balance && options.plan) {
+        switch (options.plan->decide(result, stable_hash(options.seed, identity))) {
+          case balance::Action::keep:
+            break;
+          case balance::Action::flip:
+            replace = true;
+            break;
+          case balance::Action::add:
+            add = true;
+            break;
+          case balance::Action::drop:
+            drop = true;
+            break;
+        }
       }
+    }
+    if (drop) {
+      ++st.records_dropped;
+      return ok_status();
     }
     if (!replace) {
       write_line(record, eol, origin, false, *out.out);

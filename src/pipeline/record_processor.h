@@ -10,6 +10,7 @@
 #include <vector>
 
 #include "audit/stats.h"
+#include "balance/tally.h"
 #include "base/status.h"
 #include "corpus/json_fields.h"
 #include "pipeline/options.h"
@@ -29,6 +30,7 @@ struct RecordOutput {
   std::string* out = nullptr;    // corpus lines
   std::string* edits = nullptr;  // audit log lines (null: no audit log)
   audit::Stats* stats = nullptr;
+  balance::Tally* tally = nullptr;  // tally mode: every record is added here
 };
 
 // Not copyable; one per worker thread.

@@ -50,6 +50,7 @@ struct Batch {
 
   std::string out, edits, quarantine, rejects;
   audit::Stats stats;
+  balance::Tally tally;
   std::vector<Error> rejections;
 };
 
@@ -114,6 +115,11 @@ class Runner {
   void stop_all();
   BatchPtr new_batch(uint32_t input);
   void send(BatchPtr b);
+  balance::Tally empty_tally() const {
+    const pack::CompiledPack* p = engine_.pack();
+    if (!p) return {};
+    return balance::Tally::make(p->axis(), p->groups(), p->sha256());
+  }
 
   const RunOptions& opt_;
   const rewrite::Engine& engine_;
@@ -137,7 +143,10 @@ class Runner {
 
 Status Runner::prepare() {
   if (opt_.inputs.empty()) return make_error(ErrorKind::usage, "", "no input given (--in)");
-  if (opt_.output.empty()) return make_error(ErrorKind::usage, "", "no output given (--out)");
+  if (opt_.output.empty() && opt_.mode != Mode::tally)
+    return make_error(ErrorKind::usage, "", "no output given (--out)");
+  if (opt_.mode == Mode::balance && opt_.plan == nullptr)
+    return make_error(ErrorKind::usage, "", "balance mode needs a plan");
   if (opt_.format == Format::jsonl) {
     for (const auto& f : opt_.fields) {
       auto p = corpus::PointerPattern::parse(f);
@@ -164,7 +173,8 @@ Status Runner::prepare() {
   for (const auto& in : opt_.inputs) names_.push_back(in == "-" ? "<stdin>" : in);
 
   // No output may overwrite an input or another output.
-  std::vector<std::pair<std::string, const char*>> outs = {{opt_.output, "--out"}};
+  std::vector<std::pair<std::string, const char*>> outs;
+  if (!opt_.output.empty()) outs.push_back({opt_.output, "--out"});
   if (!opt_.edits_path.empty()) outs.push_back({opt_.edits_path, "--edits"});
   if (!opt_.quarantine_path.empty()) outs.push_back({opt_.quarantine_path, "--quarantine"});
   if (!opt_.rejects_path.empty()) outs.push_back({opt_.rejects_path, "--rejects"});
@@ -192,7 +202,7 @@ Status Runner::prepare() {
     into = std::move(*s);
     return ok_status();
   };
-  EVENHAND_TRY(make(opt_.output, opt_.output_options, out_));
+  if (!opt_.output.empty()) EVENHAND_TRY(make(opt_.output, opt_.output_options, out_));
   io::SinkOptions plain;
   if (!opt_.edits_path.empty()) EVENHAND_TRY(make(opt_.edits_path, plain, edits_));
   if (!opt_.quarantine_path.empty() && opt_.on_bad == OnBadRecord::quarantine) {
@@ -286,7 +296,9 @@ void Runner::reader_main() {
 void Runner::process_batch(Batch& b, RecordProcessor& proc) {
   if (b.fatal || b.last) return;
   const std::string& path = names_[b.input];
-  RecordOutput out{&b.out, edits_ ? &b.edits : nullptr, &b.stats};
+  RecordOutput out{&b.out, edits_ ? &b.edits : nullptr, &b.stats,
+                   opt_.mode == Mode::tally ? &b.tally : nullptr};
+  if (opt_.mode == Mode::tally) b.tally = empty_tally();
   b.out.reserve(b.data.size() * (opt_.mode == Mode::augment ? 2 : 1) + 64);
   b.stats.blank_lines = b.blank_lines;
   for (const InRec& r : b.recs) {
@@ -346,11 +358,13 @@ Status Runner::write_batch(Batch& b) {
       }
     }
   }
-  if (!b.out.empty()) EVENHAND_TRY(out_->write(b.out));
+  if (out_ && !b.out.empty()) EVENHAND_TRY(out_->write(b.out));
   if (edits_ && !b.edits.empty()) EVENHAND_TRY(edits_->write(b.edits));
   if (quarantine_ && !b.quarantine.empty()) EVENHAND_TRY(quarantine_->write(b.quarantine));
   if (rejects_ && !b.rejects.empty()) EVENHAND_TRY(rejects_->write(b.rejects));
   result_.stats.merge(b.stats);
+  if (opt_.mode == Mode::tally && !b.tally.groups.empty())
+    EVENHAND_TRY(result_.tally.merge(b.tally));
   if (b.input_end) result_.inputs.push_back(b.input_info);
   return ok_status();
 }
@@ -368,6 +382,7 @@ Result<RunResult> Runner::run() {
   result_.threads = threads_;
   max_in_flight_ = 2 * threads_ + 2;
   tokens_ = std::make_unique<std::counting_semaphore<>>(max_in_flight_);
+  result_.tally = empty_tally();
   if (const auto* p = engine_.pack()) {
     result_.stats.before.resize(p->groups().size());
     result_.stats.after.resize(p->groups().size());

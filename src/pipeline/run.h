@@ -11,6 +11,7 @@
 
 #include "audit/manifest.h"
 #include "audit/stats.h"
+#include "balance/tally.h"
 #include "base/status.h"
 #include "pipeline/options.h"
 #include "rewrite/engine.h"
@@ -26,6 +27,7 @@ struct RunResult {
   double seconds = 0;
   unsigned threads = 0;
   std::vector<Error> first_rejections;  // the first few rejections, for the manifest
+  balance::Tally tally;                 // tally mode: the tally of every record read
 };
 
 // Runs the pipeline. Errors: kind usage for bad options (a bad pointer, an output that names
