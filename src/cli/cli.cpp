@@ -19,6 +19,9 @@ const char* kUsageText =
     "\n"
     "Commands:\n"
     "  run         rewrite a corpus: augment, substitute or pass through (see run --help)\n"
+    "  tally       count group mentions and what a counterfactual would change, per record kind\n"
+    "  plan        turn tallies and a target mix into a rebalancing plan\n"
+    "  merge-manifests  add up the manifests of shard runs into one\n"
     "  check       validate a rule pack and report every problem with file:line\n"
     "  packs       list the rule packs built into this binary\n"
     "  pair-names  pair first names of equal frequency rank into a pack's [names] section\n"
@@ -50,6 +53,9 @@ int main(int argc, char** argv) {
     }
     if (cmd == "run") return run_command(rest, all);
     if (cmd == "check") return check_command(rest);
+    if (cmd == "tally") return tally_command(rest);
+    if (cmd == "plan") return plan_command(rest);
+    if (cmd == "merge-manifests") return merge_manifests_command(rest);
     if (cmd == "packs") return packs_command(rest);
     if (cmd == "pair-names") return pair_names_command(rest);
     print_error("unknown command '" + cmd + "' (see 'evenhand --help')");

@@ -36,5 +36,8 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
 int check_command(const std::vector<std::string>& args);
 int packs_command(const std::vector<std::string>& args);
 int pair_names_command(const std::vector<std::string>& args);
+int tally_command(const std::vector<std::string>& args);
+int plan_command(const std::vector<std::string>& args);
+int merge_manifests_command(const std::vector<std::string>& args);
 
 }  // namespace evenhand::cli

@@ -1,18 +1,20 @@
 // `evenhand run`: the main job. Wires options into pipeline::RunOptions, loads the pack,
-// runs, writes the manifest and prints where everything went.
-#include <unistd.h>
-
+// runs (twice in balance mode without a plan: tally, plan, apply), writes the manifest and
+// prints where everything went.
+#include <cmath>
 #include <cstdio>
+#include <fstream>
 #include <iostream>
+#include <sstream>
 
 #include "audit/json_writer.h"
 #include "audit/manifest.h"
+#include "balance/plan.h"
 #include "cli/cli.h"
 #include "cli/common.h"
+#include "cli/corpus_args.h"
 #include "io/sink.h"
-#include "pack/pack.h"
 #include "pipeline/run.h"
-#include "rewrite/engine.h"
 
 namespace evenhand::cli {
 
@@ -33,95 +35,124 @@ std::string json_strings(const std::vector<std::string>& v) {
   return out;
 }
 
-// Parses "16M", "512K", "1G" or a plain byte count.
-bool parse_size(const std::string& s, size_t& out) {
-  if (s.empty()) return false;
-  size_t pos = 0;
-  unsigned long long n = 0;
-  try {
-    n = std::stoull(s, &pos);
-  } catch (...) {
-    return false;
-  }
-  std::string suffix = s.substr(pos);
-  unsigned long long mul = 1;
-  if (suffix == "K" || suffix == "KiB")
-    mul = 1ull << 10;
-  else if (suffix == "M" || suffix == "MiB")
-    mul = 1ull << 20;
-  else if (suffix == "G" || suffix == "GiB")
-    mul = 1ull << 30;
-  else if (!suffix.empty())
-    return false;
-  out = static_cast<size_t>(n * mul);
-  return true;
+std::string json_number(double d) {
+  std::string out;
+  audit::JsonWriter(out).value(d);
+  return out;
 }
 
-std::string format_eta(double s) {
-  if (s < 0 || s > 360000) return "--:--";
-  int t = static_cast<int>(s + 0.5);
-  char buf[32];
-  std::snprintf(buf, sizeof buf, "%d:%02d:%02d", t / 3600, (t / 60) % 60, t % 60);
-  return buf;
+// The "balance" section of the manifest.
+std::string balance_section(const balance::Plan& plan, const std::string& plan_source,
+                            double tolerance, const audit::Stats& st) {
+  std::string out;
+  audit::JsonWriter w(out);
+  w.begin_object();
+  w.key("plan").value(plan_source);
+  w.key("basis").value(balance::basis_name(plan.basis));
+  w.key("target").begin_object();
+  for (const auto& t : plan.target) w.key(t.group).value(t.weight);
+  w.end_object();
+  w.key("tolerance").value(tolerance);
+  w.key("planned_tolerance").value(plan.tolerance);
+  w.key("planned_changed").value(plan.changed);
+  w.key("lower_bound").value(plan.lower_bound);
+  w.key("minimal").value(plan.minimal);
+  w.key("expected_share").begin_object();
+  for (const auto& o : plan.outcome) w.key(o.group).value(o.share_after);
+  w.end_object();
+  w.key("actions").begin_object();
+  w.key("kept").value(st.records_kept - st.records_added);
+  w.key("flipped").value(st.records_replaced);
+  w.key("added").value(st.records_added);
+  w.key("dropped").value(st.records_dropped);
+  w.end_object();
+  w.end_object();
+  return out;
+}
+
+Result<std::string> read_whole(const std::string& path) {
+  std::ifstream f(path, std::ios::binary);
+  if (!f) return make_error(ErrorKind::input, path, "cannot open");
+  std::stringstream ss;
+  ss << f.rdbuf();
+  return ss.str();
+}
+
+struct BalanceArgs {
+  std::string target, basis = "mentions", plan_path;
+  double tolerance = 0.02;
+  bool allow_drop = false, no_add = false, no_flip = false;
+};
+
+// Plan options from the command line; the plan aims within half the tolerance (see README).
+Result<balance::PlanOptions> plan_options(const BalanceArgs& b) {
+  balance::PlanOptions po;
+  auto t = balance::parse_target(b.target);
+  if (!t.ok()) return std::move(t).error();
+  po.target = std::move(*t);
+  auto basis = balance::parse_basis(b.basis);
+  if (!basis) return make_error(ErrorKind::usage, "", "--basis must be mentions or records");
+  po.basis = *basis;
+  if (!(b.tolerance > 0 && b.tolerance < 1))
+    return make_error(ErrorKind::usage, "", "--tolerance must be between 0 and 1");
+  po.tolerance = b.tolerance / 2;
+  po.allow_drop = b.allow_drop;
+  po.allow_add = !b.no_add;
+  po.allow_flip = !b.no_flip;
+  return po;
+}
+
+void add_balance_options(po::options_description& opts, BalanceArgs& b) {
+  // clang-format off
+  opts.add_options()
+    ("target", po::value(&b.target), "balance: the mix to reach, e.g. female=1,male=1")
+    ("basis", po::value(&b.basis), "balance: count mentions (default) or records")
+    ("tolerance", po::value(&b.tolerance), "balance: allowed distance of each share from the target (default 0.02)")
+    ("allow-drop", po::bool_switch(&b.allow_drop), "balance: the plan may leave records out")
+    ("no-add", po::bool_switch(&b.no_add), "balance: the plan may not add counterfactual copies")
+    ("no-flip", po::bool_switch(&b.no_flip), "balance: the plan may not replace records by their counterfactual");
+  // clang-format on
+}
+
+void print_plan(const balance::Plan& p) {
+  std::fprintf(stderr, "evenhand: plan: %llu records changed (flip %llu, add %llu, drop %llu)%s\n",
+               static_cast<unsigned long long>(p.changed), static_cast<unsigned long long>(p.flip),
+               static_cast<unsigned long long>(p.add), static_cast<unsigned long long>(p.drop),
+               p.minimal ? ", minimal" : "");
+  for (const auto& o : p.outcome) {
+    std::fprintf(stderr, "  %-10s share %.3f -> %.3f (target %.3f)\n", o.group.c_str(),
+                 o.share_before, o.share_after, o.target_share);
+  }
 }
 
 }  // namespace
 
 int run_command(const std::vector<std::string>& args, const std::vector<std::string>& argv_all) {
   po::options_description opts("Options");
-  std::string pack_name, format = "jsonl", mode = "augment", on_bad = "fail", compress = "auto";
-  std::string manifest_path, max_bytes = "16M";
-  pipeline::RunOptions ro;
-  std::vector<std::string> fields;
+  CorpusArgs a;
+  BalanceArgs b;
+  pipeline::RunOptions& ro = a.ro;
+  std::string mode = "augment", compress = "auto", manifest_path;
+  add_corpus_options(opts, a);
   // clang-format off
   opts.add_options()
-    ("help,h", "show this help")
-    ("pack", po::value(&pack_name), "rule pack: a built-in name (see 'evenhand packs') or a directory")
-    ("in", po::value(&ro.inputs)->composing(), "input file (plain, zstd or gzip; '-' is stdin); repeatable, read in order")
     ("out", po::value(&ro.output), "output file ('-' is stdout); .zst/.gz names are compressed")
     ("manifest", po::value(&manifest_path), "write the run manifest (JSON) here")
     ("edits", po::value(&ro.edits_path), "write the audit log (JSONL, one line per rewritten record) here")
-    ("field", po::value(&fields)->composing(), "JSON Pointer of a string to rewrite, '*' matches every element or member; repeatable (default /text)")
-    ("format", po::value(&format), "record format: jsonl or text (default jsonl)")
-    ("paragraphs", po::bool_switch(), "text: documents are separated by blank lines instead of one per line")
-    ("mode", po::value(&mode), "augment (add a counterfactual copy after each record with mentions), substitute (replace with probability --rate), passthrough (copy and validate only); default augment")
-    ("seed", po::value(&ro.seed), "seed for per-record decisions (default 0)")
+    ("mode", po::value(&mode), "augment (add a counterfactual copy after each record with mentions; default), substitute (replace with probability --rate), balance (reach --target with the fewest changes, or apply --plan), passthrough (copy and validate only)")
     ("rate", po::value(&ro.rate), "substitute: probability that a record with mentions is replaced (default 0.5)")
-    ("id-field", po::value(&ro.id_pointer), "substitute: JSON Pointer of a record's identity (default: a hash of its raw bytes)")
-    ("threads", po::value(&ro.threads), "worker threads (default: the machine's cores)")
-    ("on-bad-record", po::value(&on_bad), "fail (default), skip, or quarantine (copy raw lines to --quarantine)")
-    ("quarantine", po::value(&ro.quarantine_path), "file for rejected records' raw lines")
-    ("rejects", po::value(&ro.rejects_path), "write one JSON line per rejected record (file, line, reason) here")
-    ("max-record-bytes", po::value(&max_bytes), "reject records longer than this (default 16M; K, M, G suffixes)")
+    ("plan", po::value(&b.plan_path), "balance: apply this plan (from 'evenhand plan') instead of making one")
     ("compress", po::value(&compress), "output compression: auto (by name), none, zstd, gzip")
     ("zstd-level", po::value(&ro.output_options.zstd_level), "zstd level (default 3)")
     ("zstd-threads", po::value(&ro.output_options.zstd_workers), "zstd worker threads (default 0: in the writer thread)")
     ("gzip-level", po::value(&ro.output_options.gzip_level), "gzip level (default 6)")
-    ("provenance", po::bool_switch(&ro.provenance), "add a \"_evenhand\" member to each written record: source file, line, original or counterfactual")
-    ("protect", po::value<std::vector<std::string>>()->composing(), "ICU regular expression of spans never to rewrite; repeatable")
-    ("quiet,q", po::bool_switch(), "print nothing but errors");
+    ("provenance", po::bool_switch(&ro.provenance), "add a \"_evenhand\" member to each written record: source file, line, original or counterfactual");
   // clang-format on
+  add_balance_options(opts, b);
   po::variables_map vm;
   int rc = parse_args("run", "--pack PACK --in PATH [--in PATH ...] --out PATH [OPTIONS]", opts,
                       args, vm);
   if (rc >= 0) return rc;
-  bool quiet = vm["quiet"].as<bool>();
-  if (!fields.empty()) ro.fields = fields;
-  if (format == "jsonl") {
-    ro.format = pipeline::Format::jsonl;
-  } else if (format == "text") {
-    ro.format = pipeline::Format::text;
-  } else {
-    print_error("run: --format must be jsonl or text, not '" + format + "'");
-    return kUsage;
-  }
-  if (vm["paragraphs"].as<bool>()) {
-    if (ro.format != pipeline::Format::text) {
-      print_error("run: --paragraphs needs --format text");
-      return kUsage;
-    }
-    ro.framing = corpus::Framing::paragraphs;
-  }
   if (mode == "augment") {
     ro.mode = pipeline::Mode::augment;
   } else if (mode == "substitute") {
@@ -129,32 +160,14 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
   } else if (mode == "passthrough") {
     ro.mode = pipeline::Mode::passthrough;
   } else if (mode == "balance") {
-    print_error(
-        "run: --mode balance is not available in this version (it needs the tally and plan steps)");
-    return kUsage;
+    ro.mode = pipeline::Mode::balance;
   } else {
     print_error("run: --mode must be augment, substitute, balance or passthrough, not '" + mode +
                 "'");
     return kUsage;
   }
-  if (on_bad == "fail") {
-    ro.on_bad = pipeline::OnBadRecord::fail;
-  } else if (on_bad == "skip") {
-    ro.on_bad = pipeline::OnBadRecord::skip;
-  } else if (on_bad == "quarantine") {
-    ro.on_bad = pipeline::OnBadRecord::quarantine;
-    if (ro.quarantine_path.empty()) {
-      print_error("run: --on-bad-record quarantine needs --quarantine PATH");
-      return kUsage;
-    }
-  } else {
-    print_error("run: --on-bad-record must be fail, skip or quarantine, not '" + on_bad + "'");
-    return kUsage;
-  }
-  if (!parse_size(max_bytes, ro.max_record_bytes)) {
-    print_error("run: --max-record-bytes takes a byte count such as 16M, not '" + max_bytes + "'");
-    return kUsage;
-  }
+  rc = finish_corpus_args("run", a);
+  if (rc >= 0) return rc;
   if (compress == "none") {
     ro.output_options.compression = io::Compression::none;
   } else if (compress == "zstd") {
@@ -165,90 +178,43 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
     print_error("run: --compress must be auto, none, zstd or gzip, not '" + compress + "'");
     return kUsage;
   }
-  if (ro.inputs.empty()) {
-    print_error("run: no input given (--in PATH)");
-    return kUsage;
-  }
   if (ro.output.empty()) {
     print_error("run: no output given (--out PATH)");
     return kUsage;
   }
-  if (!manifest_path.empty()) {
-    for (const auto& in : ro.inputs) {
-      if (in == manifest_path && in != "-") {
-        print_error("run: --manifest names an input file; refusing to overwrite it");
-        return kUsage;
-      }
-    }
-  }
-
-  std::shared_ptr<const pack::CompiledPack> pack;
-  std::unique_ptr<rewrite::Engine> engine;
-  if (pack_name.empty()) {
-    if (ro.mode != pipeline::Mode::passthrough) {
-      print_error("run: --pack is required (see 'evenhand packs' for the built-in packs)");
+  for (const auto& in : ro.inputs) {
+    if (!manifest_path.empty() && in == manifest_path && in != "-") {
+      print_error("run: --manifest names an input file; refusing to overwrite it");
       return kUsage;
     }
-    engine = rewrite::make_identity_engine();
-  } else {
-    std::vector<pack::Diagnostic> diags;
-    auto loaded = pack::load_pack(pack_name, diags);
-    if (!loaded.ok()) {
-      for (const auto& d : diags) print_error(pack_name + ": " + d.where.str() + ": " + d.message);
-      return report(loaded.error());
+  }
+  bool balance_mode = ro.mode == pipeline::Mode::balance;
+  if (balance_mode) {
+    if (b.plan_path.empty() && b.target.empty()) {
+      print_error("run: --mode balance needs --target SPEC (e.g. female=1,male=1) or --plan PLAN");
+      return kUsage;
     }
-    pack = *loaded;
-    for (const auto& [key, value] : pack->meta()) {
-      if (key == "status" && value == "draft" && ro.mode != pipeline::Mode::passthrough) {
-        print_error("run: pack " + pack->name() +
-                    " is a draft (meta status draft in pack.txt): it validates, but it is not "
-                    "ready to rewrite text; see rules/README.md");
-        return kPack;
+    if (!b.plan_path.empty() && !b.target.empty()) {
+      print_error("run: give either --target or --plan, not both");
+      return kUsage;
+    }
+    if (b.plan_path.empty()) {
+      for (const auto& in : ro.inputs) {
+        if (in == "-") {
+          print_error(
+              "run: --mode balance --target reads the input twice (tally, then apply), so it "
+              "cannot read stdin; save it to a file, or use 'evenhand tally', 'evenhand plan' "
+              "and 'run --mode balance --plan'");
+          return kUsage;
+        }
       }
     }
-    if (ro.mode == pipeline::Mode::passthrough) {
-      engine = rewrite::make_identity_engine();
-    } else {
-      rewrite::EngineOptions eo;
-      if (vm.count("protect")) eo.protect_patterns = vm["protect"].as<std::vector<std::string>>();
-      auto made = rewrite::make_engine(pack, eo);
-      if (!made.ok()) return report(made.error());
-      engine = std::move(*made);
-    }
+  } else if (!b.target.empty() || !b.plan_path.empty()) {
+    print_error("run: --target and --plan go with --mode balance");
+    return kUsage;
   }
-
-  bool tty = !quiet && isatty(STDERR_FILENO);
-  bool progress_shown = false;
-  if (tty) {
-    ro.on_progress = [&](const pipeline::Progress& p) {
-      double mbs = p.seconds > 0 ? p.raw_bytes / 1e6 / p.seconds : 0;
-      std::fprintf(stderr, "\r\033[Kevenhand: %llu records  %.1f MB/s",
-                   static_cast<unsigned long long>(p.records), mbs);
-      if (p.raw_total > 0) {
-        double frac = static_cast<double>(p.raw_bytes) / p.raw_total;
-        double eta = frac > 0 ? p.seconds * (1 - frac) / frac : -1;
-        std::fprintf(stderr, "  %.0f%%  ETA %s", 100 * frac, format_eta(eta).c_str());
-      }
-      std::fflush(stderr);
-      progress_shown = true;
-    };
-  }
-  uint64_t rejections_shown = 0;
-  constexpr uint64_t kShowRejections = 10;
-  ro.on_rejection = [&](const Error& e) {
-    if (quiet) return;
-    if (progress_shown) {
-      std::fputs("\r\033[K", stderr);
-    }
-    if (rejections_shown < kShowRejections) {
-      print_error("rejected: " + e.message());
-    } else if (rejections_shown == kShowRejections) {
-      print_error(
-          "more records rejected; counts are in the manifest" +
-          std::string(ro.rejects_path.empty() ? "" : " and every one in " + ro.rejects_path));
-    }
-    ++rejections_shown;
-  };
+  rc = load_engine("run", a, ro.mode == pipeline::Mode::passthrough);
+  if (rc >= 0) return rc;
 
   // Open the manifest first so an unwritable path fails before any work is done.
   std::unique_ptr<io::Sink> manifest_sink;
@@ -260,30 +226,67 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
     manifest_sink = std::move(*ms);
   }
 
+  bool shown = false;
+  attach_reporting(a, shown);
   std::string started = utc_now();
-  auto result = pipeline::run(ro, *engine);
-  if (progress_shown) std::fputs("\r\033[K", stderr);
+
+  balance::Plan plan;
+  std::string plan_source;
+  double tolerance = b.tolerance;
+  if (balance_mode) {
+    if (!b.plan_path.empty()) {
+      auto text = read_whole(b.plan_path);
+      if (!text.ok()) return report(text.error());
+      auto p = balance::plan_from_json(*text, b.plan_path);
+      if (!p.ok()) return report(p.error());
+      plan = std::move(*p);
+      plan_source = b.plan_path;
+      tolerance = plan.tolerance * 2;
+      if (!plan.pack_sha256.empty() && plan.pack_sha256 != a.pack->sha256()) {
+        print_error("run: " + b.plan_path + " was made with another pack (sha256 " +
+                    plan.pack_sha256 + ", this one " + a.pack->sha256() + ")");
+        return kUsage;
+      }
+    } else {
+      auto popts = plan_options(b);
+      if (!popts.ok()) return report(popts.error());
+      pipeline::RunOptions tro = ro;
+      tro.mode = pipeline::Mode::tally;
+      tro.output.clear();
+      tro.edits_path.clear();
+      tro.quarantine_path.clear();
+      tro.rejects_path.clear();
+      tro.on_rejection = nullptr;
+      auto tallied = pipeline::run(tro, *a.engine);
+      clear_progress(shown);
+      if (!tallied.ok()) return report(tallied.error());
+      auto p = balance::make_plan(tallied->tally, *popts);
+      if (!p.ok()) return report(p.error());
+      plan = std::move(*p);
+      plan_source = "made from the input";
+    }
+    if (!a.quiet) print_plan(plan);
+    ro.plan = &plan;
+  }
+
+  auto result = pipeline::run(ro, *a.engine);
+  clear_progress(shown);
   if (!result.ok()) return report(result.error());
   const auto& r = *result;
 
-  if (!manifest_path.empty()) {
+  if (manifest_sink) {
     audit::ManifestData md;
     md.command_line = argv_all;
-    md.pack = pack.get();
+    md.pack = a.pack.get();
     md.options = {
         {"mode", json_string(mode)},
-        {"format", json_string(format)},
-        {"paragraphs", vm["paragraphs"].as<bool>() ? "true" : "false"},
+        {"format", json_string(a.format)},
+        {"paragraphs", a.paragraphs ? "true" : "false"},
         {"fields", json_strings(ro.fields)},
         {"seed", std::to_string(ro.seed)},
-        {"rate",
-         [&] {
-           std::string s;
-           audit::JsonWriter(s).value(ro.rate);
-           return s;
-         }()},
+        {"rate", json_number(ro.rate)},
         {"id_field", json_string(ro.id_pointer)},
-        {"on_bad_record", json_string(on_bad)},
+        {"on_bad_record", json_string(a.on_bad)},
         {"max_record_bytes", std::to_string(ro.max_record_bytes)},
         {"provenance", ro.provenance ? "true" : "false"},
     };
@@ -294,12 +297,20 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
     md.seconds = r.seconds;
     md.threads = r.threads;
     md.started_at = started;
+    if (balance_mode && a.pack) {
+      md.planned_basis = balance::basis_name(plan.basis);
+      md.planned.assign(a.pack->groups().size(), std::nan(""));
+      for (const auto& o : plan.outcome) {
+        if (auto g = a.pack->group_index(o.group)) md.planned[*g] = o.after;
+      }
+      md.balance_json = balance_section(plan, plan_source, tolerance, r.stats);
+    }
     Status s = manifest_sink->write(audit::render_manifest(md));
     if (s.ok()) s = manifest_sink->commit();
     if (!s.ok()) return report(s.error());
   }
 
-  if (!quiet) {
+  if (!a.quiet) {
     const auto& st = r.stats;
     std::fprintf(stderr,
                  "evenhand: read %llu records (%llu rejected), wrote %llu (%llu counterfactual) "
@@ -315,6 +326,83 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
     if (!manifest_path.empty())
       std::fprintf(stderr, "  %-10s %s\n", "manifest:", manifest_path.c_str());
   }
+  return kOk;
+}
+
+int tally_command(const std::vector<std::string>& args) {
+  po::options_description opts("Options");
+  CorpusArgs a;
+  std::string out;
+  add_corpus_options(opts, a);
+  opts.add_options()("out", po::value(&out), "write the tally (JSON) here ('-' is stdout)");
+  po::variables_map vm;
+  int rc = parse_args("tally", "--pack PACK --in PATH [--in PATH ...] --out TALLY.json [OPTIONS]",
+                      opts, args, vm);
+  if (rc >= 0) return rc;
+  a.ro.mode = pipeline::Mode::tally;
+  rc = finish_corpus_args("tally", a);
+  if (rc >= 0) return rc;
+  if (out.empty()) {
+    print_error("tally: no output given (--out PATH)");
+    return kUsage;
+  }
+  rc = load_engine("tally", a, false);
+  if (rc >= 0) return rc;
+  bool shown = false;
+  attach_reporting(a, shown);
+  auto r = pipeline::run(a.ro, *a.engine);
+  clear_progress(shown);
+  if (!r.ok()) return report(r.error());
+  Status s = write_file_atomic(out, balance::tally_to_json(r->tally));
+  if (!s.ok()) return report(s.error());
+  if (!a.quiet) {
+    std::fprintf(stderr, "evenhand: tallied %llu records (%llu rejected) into %s\n",
+                 static_cast<unsigned long long>(r->stats.records_read),
+                 static_cast<unsigned long long>(r->stats.records_rejected), out.c_str());
+  }
+  return kOk;
+}
+
+int plan_command(const std::vector<std::string>& args) {
+  po::options_description opts("Options");
+  BalanceArgs b;
+  std::vector<std::string> tallies;
+  std::string out;
+  bool quiet = false;
+  opts.add_options()("help,h", "show this help")(
+      "tally", po::value(&tallies)->composing(),
+      "a tally from 'evenhand tally'; repeatable: the tallies of shards are merged")(
+      "out", po::value(&out), "write the plan (JSON) here ('-' is stdout)")(
+      "quiet,q", po::bool_switch(&quiet), "print nothing but errors");
+  add_balance_options(opts, b);
+  po::variables_map vm;
+  int rc = parse_args("plan", "--tally T.json [--tally ...] --target SPEC --out PLAN.json", opts,
+                      args, vm);
+  if (rc >= 0) return rc;
+  if (tallies.empty() || out.empty() || b.target.empty()) {
+    print_error("plan: --tally, --target and --out are required");
+    return kUsage;
+  }
+  balance::Tally merged;
+  for (const auto& t : tallies) {
+    auto text = read_whole(t);
+    if (!text.ok()) return report(text.error());
+    auto tally = balance::tally_from_json(*text, t);
+    if (!tally.ok()) return report(tally.error());
+    Status s = merged.merge(*tally);
+    if (!s.ok()) {
+      Error e = std::move(s).error();
+      if (e.file.empty()) e.file = t;
+      return report(e);
+    }
+  }
+  auto popts = plan_options(b);
+  if (!popts.ok()) return report(popts.error());
+  auto p = balance::make_plan(merged, *popts);
+  if (!p.ok()) return report(p.error());
+  Status s = write_file_atomic(out, balance::plan_to_json(*p));
+  if (!s.ok()) return report(s.error());
+  if (!quiet) print_plan(*p);
   return kOk;
 }
 

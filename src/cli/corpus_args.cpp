@@ -1,0 +1,184 @@
+#include "cli/corpus_args.h"
+
+#include <unistd.h>
+
+#include <cstdio>
+
+#include "cli/cli.h"
+
+namespace evenhand::cli {
+
+namespace {
+
+std::string format_eta(double s) {
+  if (s < 0 || s > 360000) return "--:--";
+  int t = static_cast<int>(s + 0.5);
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%d:%02d:%02d", t / 3600, (t / 60) % 60, t % 60);
+  return buf;
+}
+
+}  // namespace
+
+bool parse_size(const std::string& s, size_t& out) {
+  if (s.empty() || s[0] < '0' || s[0] > '9') return false;
+  size_t pos = 0;
+  unsigned long long n = 0;
+  try {
+    n = std::stoull(s, &pos);
+  } catch (...) {
+    return false;
+  }
+  std::string suffix = s.substr(pos);
+  unsigned long long mul = 1;
+  if (suffix == "K" || suffix == "KiB")
+    mul = 1ull << 10;
+  else if (suffix == "M" || suffix == "MiB")
+    mul = 1ull << 20;
+  else if (suffix == "G" || suffix == "GiB")
+    mul = 1ull << 30;
+  else if (!suffix.empty())
+    return false;
+  out = static_cast<size_t>(n * mul);
+  return true;
+}
+
+void add_corpus_options(po::options_description& opts, CorpusArgs& a) {
+  pipeline::RunOptions& ro = a.ro;
+  // clang-format off
+  opts.add_options()
+    ("help,h", "show this help")
+    ("pack", po::value(&a.pack_name), "rule pack: a built-in name (see 'evenhand packs') or a directory")
+    ("in", po::value(&ro.inputs)->composing(), "input file (plain, zstd or gzip; '-' is stdin); repeatable, read in order")
+    ("field", po::value(&a.fields)->composing(), "JSON Pointer of a string to rewrite, '*' matches every element or member; repeatable (default /text)")
+    ("format", po::value(&a.format), "record format: jsonl or text (default jsonl)")
+    ("paragraphs", po::bool_switch(&a.paragraphs), "text: documents are separated by blank lines instead of one per line")
+    ("seed", po::value(&ro.seed), "seed for per-record decisions (default 0)")
+    ("id-field", po::value(&ro.id_pointer), "JSON Pointer of a record's identity for per-record decisions (default: a hash of its raw bytes)")
+    ("threads", po::value(&ro.threads), "worker threads (default: the machine's cores)")
+    ("on-bad-record", po::value(&a.on_bad), "fail (default), skip, or quarantine (copy raw lines to --quarantine)")
+    ("quarantine", po::value(&ro.quarantine_path), "file for rejected records' raw lines")
+    ("rejects", po::value(&ro.rejects_path), "write one JSON line per rejected record (file, line, reason) here")
+    ("max-record-bytes", po::value(&a.max_bytes), "reject records longer than this (default 16M; K, M, G suffixes)")
+    ("protect", po::value(&a.protect)->composing(), "ICU regular expression of spans never to rewrite; repeatable")
+    ("quiet,q", po::bool_switch(&a.quiet), "print nothing but errors");
+  // clang-format on
+}
+
+int finish_corpus_args(const std::string& cmd, CorpusArgs& a) {
+  pipeline::RunOptions& ro = a.ro;
+  if (!a.fields.empty()) ro.fields = a.fields;
+  if (a.format == "jsonl") {
+    ro.format = pipeline::Format::jsonl;
+  } else if (a.format == "text") {
+    ro.format = pipeline::Format::text;
+  } else {
+    print_error(cmd + ": --format must be jsonl or text, not '" + a.format + "'");
+    return kUsage;
+  }
+  if (a.paragraphs) {
+    if (ro.format != pipeline::Format::text) {
+      print_error(cmd + ": --paragraphs needs --format text");
+      return kUsage;
+    }
+    ro.framing = corpus::Framing::paragraphs;
+  }
+  if (a.on_bad == "fail") {
+    ro.on_bad = pipeline::OnBadRecord::fail;
+  } else if (a.on_bad == "skip") {
+    ro.on_bad = pipeline::OnBadRecord::skip;
+  } else if (a.on_bad == "quarantine") {
+    ro.on_bad = pipeline::OnBadRecord::quarantine;
+    if (ro.quarantine_path.empty()) {
+      print_error(cmd + ": --on-bad-record quarantine needs --quarantine PATH");
+      return kUsage;
+    }
+  } else {
+    print_error(cmd + ": --on-bad-record must be fail, skip or quarantine, not '" + a.on_bad + "'");
+    return kUsage;
+  }
+  if (!parse_size(a.max_bytes, ro.max_record_bytes)) {
+    print_error(cmd + ": --max-record-bytes takes a byte count such as 16M, not '" + a.max_bytes +
+                "'");
+    return kUsage;
+  }
+  if (ro.inputs.empty()) {
+    print_error(cmd + ": no input given (--in PATH)");
+    return kUsage;
+  }
+  return -1;
+}
+
+int load_engine(const std::string& cmd, CorpusArgs& a, bool pack_optional) {
+  if (a.pack_name.empty()) {
+    if (!pack_optional) {
+      print_error(cmd + ": --pack is required (see 'evenhand packs' for the built-in packs)");
+      return kUsage;
+    }
+    a.engine = rewrite::make_identity_engine();
+    return -1;
+  }
+  std::vector<pack::Diagnostic> diags;
+  auto loaded = pack::load_pack(a.pack_name, diags);
+  if (!loaded.ok()) {
+    for (const auto& d : diags) print_error(a.pack_name + ": " + d.where.str() + ": " + d.message);
+    return report(loaded.error());
+  }
+  a.pack = *loaded;
+  if (a.ro.mode == pipeline::Mode::passthrough) {
+    a.engine = rewrite::make_identity_engine();
+    return -1;
+  }
+  for (const auto& [key, value] : a.pack->meta()) {
+    if (key == "status" && value == "draft") {
+      print_error(cmd + ": pack " + a.pack->name() +
+                  " is a draft (meta status draft in pack.txt): it validates, but it is not "
+                  "ready to rewrite text; see rules/README.md");
+      return kPack;
+    }
+  }
+  rewrite::EngineOptions eo;
+  eo.protect_patterns = a.protect;
+  auto made = rewrite::make_engine(a.pack, eo);
+  if (!made.ok()) return report(made.error());
+  a.engine = std::move(*made);
+  return -1;
+}
+
+void attach_reporting(CorpusArgs& a, bool& shown) {
+  bool quiet = a.quiet;
+  if (!quiet && isatty(STDERR_FILENO)) {
+    a.ro.on_progress = [&shown](const pipeline::Progress& p) {
+      double mbs = p.seconds > 0 ? p.raw_bytes / 1e6 / p.seconds : 0;
+      std::fprintf(stderr, "\r\033[Kevenhand: %llu records  %.1f MB/s",
+                   static_cast<unsigned long long>(p.records), mbs);
+      if (p.raw_total > 0) {
+        double frac = static_cast<double>(p.raw_bytes) / p.raw_total;
+        double eta = frac > 0 ? p.seconds * (1 - frac) / frac : -1;
+        std::fprintf(stderr, "  %.0f%%  ETA %s", 100 * frac, format_eta(eta).c_str());
+      }
+      std::fflush(stderr);
+      shown = true;
+    };
+  }
+  auto count = std::make_shared<uint64_t>(0);
+  std::string rejects = a.ro.rejects_path;
+  a.ro.on_rejection = [quiet, count, rejects, &shown](const Error& e) {
+    if (quiet) return;
+    constexpr uint64_t kShow = 10;
+    if (shown) std::fputs("\r\033[K", stderr);
+    if (*count < kShow) {
+      print_error("rejected: " + e.message());
+    } else if (*count == kShow) {
+      print_error("more records rejected; counts are in the manifest" +
+                  std::string(rejects.empty() ? "" : " and every one in " + rejects));
+    }
+    ++*count;
+  };
+}
+
+void clear_progress(bool shown) {
+  if (shown) std::fputs("\r\033[K", stderr);
+}
+
+}  // namespace evenhand::cli

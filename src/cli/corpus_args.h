@@ -1,0 +1,50 @@
+// The options every corpus-reading command shares (run, tally): pack, inputs, fields,
+// framing, bad-record policy, threads. Parsing them in one place keeps the commands'
+// spelling and behaviour identical.
+#pragma once
+
+#include <memory>
+#include <string>
+#include <vector>
+
+#include "cli/common.h"
+#include "pack/pack.h"
+#include "pipeline/options.h"
+#include "rewrite/engine.h"
+
+namespace evenhand::cli {
+
+struct CorpusArgs {
+  std::string pack_name;
+  std::string format = "jsonl";
+  std::string on_bad = "fail";
+  std::string max_bytes = "16M";
+  std::vector<std::string> fields;
+  std::vector<std::string> protect;
+  bool paragraphs = false;
+  bool quiet = false;
+  pipeline::RunOptions ro;
+
+  std::shared_ptr<const pack::CompiledPack> pack;
+  std::unique_ptr<rewrite::Engine> engine;
+};
+
+// Adds the shared options to `opts`, bound to `a`.
+void add_corpus_options(po::options_description& opts, CorpusArgs& a);
+
+// Checks the parsed options and fills a.ro. Returns -1 to go on, else the exit code.
+int finish_corpus_args(const std::string& command, CorpusArgs& a);
+
+// Loads the pack (required unless `pack_optional`) and makes the engine for a.ro.mode.
+// Returns -1 to go on, else the exit code (after printing why).
+int load_engine(const std::string& command, CorpusArgs& a, bool pack_optional);
+
+// Installs the progress line (terminal only, not with --quiet) and the rejection messages.
+// `shown` is set once a progress line is on screen; call clear_progress() after the run.
+void attach_reporting(CorpusArgs& a, bool& shown);
+void clear_progress(bool shown);
+
+// Parses "16M", "512K", "1G" or a plain byte count.
+bool parse_size(const std::string& s, size_t& out);
+
+}  // namespace evenhand::cli
