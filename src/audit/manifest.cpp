@@ -1,5 +1,8 @@
 #include "audit/manifest.h"
 
+#include <algorithm>
+#include <cstdlib>
+
 #include "audit/json_writer.h"
 #include "evenhand/version.h"
 
@@ -30,6 +33,16 @@ void write_tally(JsonWriter& w, const GroupTally& t) {
 }
 
 }  // namespace
+
+bool rule_less(std::string_view a, std::string_view b) {
+  auto split = [](std::string_view r) {
+    size_t colon = r.rfind(':');
+    if (colon == std::string_view::npos) return std::make_pair(r, 0ul);
+    return std::make_pair(r.substr(0, colon),
+                          std::strtoul(std::string(r.substr(colon + 1)).c_str(), nullptr, 10));
+  };
+  return split(a) < split(b);
+}
 
 std::pair<std::string, std::string> describe_entry(const pack::CompiledPack& pack, uint32_t index) {
   auto join = [](const std::vector<std::string>& forms) {
@@ -148,16 +161,20 @@ std::string render_manifest(const ManifestData& d) {
   w.key("ambiguous").value(st.ambiguous);
   w.key("entry_hits").begin_array();
   if (d.pack) {
+    struct Hit {
+      std::string rule, forms;
+      uint64_t hits;
+    };
+    std::vector<Hit> list;
     for (const auto& [index, hits] : st.entry_hits) {
       auto [rule, forms] = describe_entry(*d.pack, index);
-      w.begin_object()
-          .key("rule")
-          .value(rule)
-          .key("forms")
-          .value(forms)
-          .key("hits")
-          .value(hits)
-          .end_object();
+      list.push_back({rule, forms, hits});
+    }
+    std::sort(list.begin(), list.end(),
+              [](const Hit& a, const Hit& b) { return rule_less(a.rule, b.rule); });
+    for (const auto& h : list) {
+      w.begin_object().key("rule").value(h.rule).key("forms").value(h.forms);
+      w.key("hits").value(h.hits).end_object();
     }
   }
   w.end_array();

@@ -48,6 +48,9 @@ struct ManifestData {
 // Returns the manifest as pretty-printed JSON text ending in a newline.
 std::string render_manifest(const ManifestData& data);
 
+// Orders pack locations "file:line" by file name, then line number.
+bool rule_less(std::string_view a, std::string_view b);
+
 // Describes pack entry `index` as counted in Stats::entry_hits: sets first, then names.
 // Returns {"words.txt:12", "she|he"}.
 std::pair<std::string, std::string> describe_entry(const pack::CompiledPack& pack, uint32_t index);

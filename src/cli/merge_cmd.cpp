@@ -3,6 +3,7 @@
 // merged by rule; identity fields (schema, tool, pack, options, plan) must agree.
 #include <simdjson.h>
 
+#include <algorithm>
 #include <cmath>
 #include <cstdio>
 #include <fstream>
@@ -34,6 +35,7 @@ struct JVal {
       if (m.first == k) return &m.second;
     return nullptr;
   }
+  const JVal* find(const std::string& k) const { return const_cast<JVal*>(this)->find(k); }
 };
 
 JVal from_dom(simdjson::dom::element e) {
@@ -202,6 +204,11 @@ Status merge_into(JVal& total, const JVal& m, const std::string& path) {
             }
             if (!found) tr->items.push_back(hit);
           }
+          std::stable_sort(tr->items.begin(), tr->items.end(), [](const JVal& x, const JVal& y) {
+            const JVal* rx = x.find("rule");
+            const JVal* ry = y.find("rule");
+            return rx && ry && audit::rule_less(rx->s, ry->s);
+          });
         } else if (!add_counts(*tr, rv)) {
           return err("'rewrites." + rk + "' has another shape");
         }
