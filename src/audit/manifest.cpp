@@ -128,6 +128,9 @@ std::string render_manifest(const ManifestData& d) {
   w.key("guarded").value(st.records_guarded);
   w.key("guarded_by_reason");
   write_counts(w, st.guarded_by_reason);
+  w.key("flagged").value(st.records_flagged);
+  w.key("flagged_by_reason");
+  write_counts(w, st.flagged_by_reason);
   w.end_object();
 
   w.key("fields").begin_object();

@@ -29,6 +29,8 @@ void Stats::merge(const Stats& o) {
   fields_not_string += o.fields_not_string;
   records_with_mentions += o.records_with_mentions;
   records_guarded += o.records_guarded;
+  records_flagged += o.records_flagged;
+  for (const auto& [k, v] : o.flagged_by_reason) flagged_by_reason[k] += v;
   for (const auto& [k, v] : o.guarded_by_reason) guarded_by_reason[k] += v;
   protected_skips += o.protected_skips;
   ambiguous += o.ambiguous;

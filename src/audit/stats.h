@@ -34,6 +34,8 @@ struct Stats {
 
   uint64_t records_with_mentions = 0;
   uint64_t records_guarded = 0;
+  uint64_t records_flagged = 0;  // counterfactuals with agreement the engine could not settle
+  std::map<std::string, uint64_t> flagged_by_reason;
   std::map<std::string, uint64_t> guarded_by_reason;
   uint64_t protected_skips = 0;  // mentions inside protected spans, left alone
   uint64_t ambiguous = 0;        // context decisions with a low margin

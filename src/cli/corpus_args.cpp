@@ -61,6 +61,9 @@ void add_corpus_options(po::options_description& opts, CorpusArgs& a) {
     ("rejects", po::value(&ro.rejects_path), "write one JSON line per rejected record (file, line, reason) here")
     ("max-record-bytes", po::value(&a.max_bytes), "reject records longer than this (default 16M; K, M, G suffixes)")
     ("protect", po::value(&a.protect)->composing(), "ICU regular expression of spans never to rewrite; repeatable")
+    ("toward", po::value(&a.toward), "rewrite the other groups' forms toward this group only (e.g. neutral); default: swap the pack's first two groups")
+    ("themselves", po::bool_switch(&a.themselves), "English neutral: write 'themselves' instead of 'themself'")
+    ("on-flagged", po::value(&a.on_flagged), "a counterfactual whose agreement cannot be settled: original (write the original only; default), counterfactual (write it anyway, flagged in --provenance), reject (as a bad record)")
     ("quiet,q", po::bool_switch(&a.quiet), "print nothing but errors");
   // clang-format on
 }
@@ -102,6 +105,17 @@ int finish_corpus_args(const std::string& cmd, CorpusArgs& a) {
                 "'");
     return kUsage;
   }
+  if (a.on_flagged == "original") {
+    ro.on_flagged = pipeline::OnFlagged::original;
+  } else if (a.on_flagged == "counterfactual") {
+    ro.on_flagged = pipeline::OnFlagged::counterfactual;
+  } else if (a.on_flagged == "reject") {
+    ro.on_flagged = pipeline::OnFlagged::reject;
+  } else {
+    print_error(cmd + ": --on-flagged must be original, counterfactual or reject, not '" +
+                a.on_flagged + "'");
+    return kUsage;
+  }
   if (ro.inputs.empty()) {
     print_error(cmd + ": no input given (--in PATH)");
     return kUsage;
@@ -139,6 +153,18 @@ int load_engine(const std::string& cmd, CorpusArgs& a, bool pack_optional) {
   }
   rewrite::EngineOptions eo;
   eo.protect_patterns = a.protect;
+  eo.themselves = a.themselves;
+  if (!a.toward.empty()) {
+    auto g = a.pack->group_index(a.toward);
+    if (!g) {
+      std::string groups;
+      for (const auto& n : a.pack->groups()) groups += (groups.empty() ? "" : ", ") + n;
+      print_error(cmd + ": --toward " + a.toward + ": pack " + a.pack->name() +
+                  " has no such group (it has " + groups + ")");
+      return kUsage;
+    }
+    eo.toward = *g;
+  }
   auto made = rewrite::make_engine(a.pack, eo);
   if (!made.ok()) return report(made.error());
   a.engine = std::move(*made);

@@ -21,6 +21,9 @@ struct CorpusArgs {
   std::string max_bytes = "16M";
   std::vector<std::string> fields;
   std::vector<std::string> protect;
+  std::string toward;
+  std::string on_flagged = "original";
+  bool themselves = false;
   bool paragraphs = false;
   bool quiet = false;
   pipeline::RunOptions ro;

@@ -289,6 +289,9 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
         {"on_bad_record", json_string(a.on_bad)},
         {"max_record_bytes", std::to_string(ro.max_record_bytes)},
         {"provenance", ro.provenance ? "true" : "false"},
+        {"toward", a.toward.empty() ? "null" : json_string(a.toward)},
+        {"themselves", a.themselves ? "true" : "false"},
+        {"on_flagged", json_string(a.on_flagged)},
     };
     md.stats = &r.stats;
     md.inputs = r.inputs;

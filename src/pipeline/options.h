@@ -26,6 +26,13 @@ enum class Mode {
 
 enum class OnBadRecord { fail, skip, quarantine };
 
+// What happens to a record whose counterfactual has agreement the engine could not settle.
+enum class OnFlagged {
+  original,        // write the original only (no counterfactual); counted
+  counterfactual,  // write the counterfactual anyway; the provenance member lists the flags
+  reject,          // reject the record (to the quarantine file with --on-bad-record quarantine)
+};
+
 struct Progress {
   uint64_t records = 0;    // records framed so far
   uint64_t raw_bytes = 0;  // input bytes consumed so far (compressed bytes when compressed)
@@ -48,6 +55,7 @@ struct RunOptions {
   std::string id_pointer;  // substitute: record identity from this value; empty: raw bytes
   unsigned threads = 0;    // worker threads; 0: the machine's cores
   OnBadRecord on_bad = OnBadRecord::fail;
+  OnFlagged on_flagged = OnFlagged::original;
   size_t max_record_bytes = 16u << 20;
   io::SinkOptions output_options;
   bool provenance = false;              // add the "_evenhand" member to every written JSONL record

@@ -16,6 +16,7 @@ std::string rejection_code(const Error& e) {
   if (r.rfind("record is not a JSON object", 0) == 0) return "not_object";
   if (r.rfind("record of ", 0) == 0) return "record_too_large";
   if (r.rfind("invalid JSON", 0) == 0) return "invalid_json";
+  if (r.rfind("agreement could not be settled", 0) == 0) return "unsettled_agreement";
   return "invalid_record";
 }
 
@@ -62,8 +63,13 @@ struct RecordProcessor::Impl {
         .key("line")
         .value(origin.line)
         .key("copy")
-        .value(counterfactual ? "counterfactual" : "original")
-        .end_object();
+        .value(counterfactual ? "counterfactual" : "original");
+    if (counterfactual && !result.flags.empty()) {
+      w.key("flags").begin_array();
+      for (const auto& f : result.flags) w.begin_object().key(f.code).value(f.detail).end_object();
+      w.end_array();
+    }
+    w.end_object();
     corpus::append_with_member(record, kProvenanceKey, tmp, out);
   }
 
@@ -120,6 +126,7 @@ struct RecordProcessor::Impl {
       w.key("to").value(e.replacement);
       if (e.rule) w.key("rule").value(e.rule->str());
       w.key("why").value(rewrite::edit_reason_name(e.reason));
+      if (!e.note.empty()) w.key("note").value(e.note);
       if (e.reason == rewrite::EditReason::context)
         w.key("score").value(std::round(static_cast<double>(e.score) * 1000) / 1000);
       w.end_object();
@@ -141,6 +148,27 @@ struct RecordProcessor::Impl {
 
   // Adds a record's mentions, and the record itself to the group it mentions most (a tie
   // or no mention counts toward no group), as the balance tally counts records.
+  static void untally(std::vector<audit::GroupTally>& into, const rewrite::GroupCounts& counts) {
+    for (size_t g = 0; g < counts.size() && g < into.size(); ++g) into[g].mentions -= counts[g];
+    int16_t lead = balance::lead_group(counts);
+    if (lead >= 0 && static_cast<size_t>(lead) < into.size())
+      --into[static_cast<size_t>(lead)].records;
+  }
+
+  void flag_line(const RecordOrigin& origin, std::string& out) {
+    audit::JsonWriter w(out);
+    w.begin_object().key("input").value(*origin.path).key("line").value(origin.line);
+    w.key("action").value("flagged");
+    w.key("flags").begin_array();
+    for (const auto& f : result.flags) w.begin_object().key(f.code).value(f.detail).end_object();
+    w.end_array();
+    w.key("outcome").value(options.on_flagged == OnFlagged::original ? "original kept"
+                           : options.on_flagged == OnFlagged::reject ? "rejected"
+                                                                     : "counterfactual written");
+    w.end_object();
+    out += '\n';
+  }
+
   static void tally(std::vector<audit::GroupTally>& into, const rewrite::GroupCounts& counts) {
     if (into.size() < counts.size()) into.resize(counts.size());
     for (size_t g = 0; g < counts.size(); ++g) into[g].mentions += counts[g];
@@ -208,6 +236,26 @@ struct RecordProcessor::Impl {
     st.ambiguous += result.ambiguous;
 
     bool can_rewrite = mentions && !result.guard && !result.edits.empty();
+    if (can_rewrite && !result.flags.empty() && options.mode != Mode::tally) {
+      ++st.records_flagged;
+      for (const auto& f : result.flags) ++st.flagged_by_reason[f.code];
+      if (out.edits) {
+        flag_line(origin, *out.edits);
+        ++st.audit_lines;
+      }
+      if (options.on_flagged == OnFlagged::reject) {
+        // Undo what this record added to the counts: it is rejected instead.
+        st.records_read -= 1;
+        st.fields_selected -= fields.size();
+        Error e = make_error(ErrorKind::input, *origin.path,
+                             "agreement could not be settled: " + result.flags.front().detail);
+        e.line = origin.line;
+        untally(st.before, result.before);
+        if (mentions) --st.records_with_mentions;
+        return e;
+      }
+      if (options.on_flagged == OnFlagged::original) can_rewrite = false;
+    }
     if (options.mode == Mode::tally) {
       if (out.tally) out.tally->add(result);
       return ok_status();

@@ -30,6 +30,7 @@ void RecordResult::clear() {
   protected_spans = 0;
   ambiguous = 0;
   entry_hits.clear();
+  flags.clear();
 }
 
 namespace {

@@ -34,6 +34,7 @@ struct Edit {
   EditReason reason = EditReason::lexicon;
   const pack::SourceRef* rule = nullptr;  // the pack line that fired (owned by the pack)
   float score = 0;                        // decision margin for context edits
+  std::string note;                       // agreement edits: what was agreed and why
 };
 
 // Counts per group, indexed like CompiledPack::groups().
@@ -47,6 +48,13 @@ struct RecordResult {
   uint32_t protected_spans = 0;        // mentions skipped because they sat in protected spans
   uint32_t ambiguous = 0;              // context decisions with a low margin
   std::vector<uint32_t> entry_hits;    // sets/names that fired, one per non-agreement edit
+  // Agreement that could not be settled: a short code ("unsettled_verb",
+  // "unsettled_contraction") and what was seen.
+  struct Flag {
+    std::string code;
+    std::string detail;
+  };
+  std::vector<Flag> flags;
 
   bool has_mentions() const;
   void clear();
@@ -55,8 +63,11 @@ struct RecordResult {
 struct EngineOptions {
   // Protected-span user patterns (ICU regular expressions).
   std::vector<std::string> protect_patterns;
-  // Rewrite toward one group only (#4); nullopt: every group to its counterpart.
+  // Rewrite every other group's forms toward this group; nullopt: the first two groups swap
+  // and further groups (e.g. neutral) stay as they are.
   std::optional<uint16_t> toward;
+  // English: write "themselves" where the pack's neutral reflexive is "themself".
+  bool themselves = false;
 };
 
 class Engine;

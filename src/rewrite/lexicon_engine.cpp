@@ -17,6 +17,7 @@
 #include "rewrite/article.h"
 #include "rewrite/engine.h"
 #include "rewrite/possessive.h"
+#include "rewrite/verb_agreement.h"
 #include "text/case.h"
 #include "text/protect.h"
 #include "text/tokenize.h"
@@ -79,6 +80,10 @@ class LexiconWorker final : public Worker {
   bool phrase_at(const PhraseIndex& idx, size_t k, const PhraseIndex::Phrase** hit,
                  size_t* len) const;
   bool sentence_start(size_t k) const;
+  // Makes the verb agree with a subject pronoun that became "they" (the pronoun edit is
+  // `pronoun`, at items k..k+len-1); pushes the edits in order and returns the last item used.
+  size_t verb_agreement(uint32_t field, std::string_view text, size_t k, size_t len,
+                        uint32_t clitic, Edit& pronoun, RecordResult& out);
   // Re-chooses "a"/"an" at item k-1 when the word at k becomes `next_word` (English).
   void article_agreement(uint32_t field, std::string_view text, size_t k,
                          std::string_view next_word, RecordResult& out);
@@ -101,13 +106,20 @@ class LexiconEngine final : public Engine {
  public:
   LexiconEngine(std::shared_ptr<const pack::CompiledPack> p,
                 std::unique_ptr<text::ProtectedSpans> ps,
-                std::shared_ptr<const PossessiveModel> model, const EngineOptions& o)
-      : pack_(std::move(p)), protect_(std::move(ps)), model_(std::move(model)), options_(o) {
+                std::shared_ptr<const PossessiveModel> model,
+                std::shared_ptr<const VerbTable> verbs, const EngineOptions& o)
+      : pack_(std::move(p)),
+        protect_(std::move(ps)),
+        model_(std::move(model)),
+        verbs_(std::move(verbs)),
+        options_(o) {
     const auto& groups = pack_->groups();
     target_.resize(groups.size());
     for (uint16_t g = 0; g < groups.size(); ++g) {
       if (o.toward) {
-        target_[g] = *o.toward;
+        // The first two groups go toward the target; further groups (neutral) are left
+        // alone unless they are the target: "they" is plural far more often than not.
+        target_[g] = g < 2 ? *o.toward : g;
       } else if (g < 2) {
         target_[g] = static_cast<uint16_t>(1 - g);  // the first two groups swap
       } else {
@@ -126,6 +138,7 @@ class LexiconEngine final : public Engine {
   std::shared_ptr<const pack::CompiledPack> pack_;
   std::unique_ptr<text::ProtectedSpans> protect_;
   std::shared_ptr<const PossessiveModel> model_;
+  std::shared_ptr<const VerbTable> verbs_;
   EngineOptions options_;
   std::vector<uint16_t> target_;
   PhraseIndex guards_;
@@ -359,7 +372,8 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
       }
       if (!decided || score < kLowMargin) ++out.ambiguous;
     }
-    const std::string& replacement = form_of(chosen);
+    std::string replacement = form_of(chosen);
+    if (e_.options_.themselves && replacement == "themself") replacement = "themselves";
     if (guarded || t == g || replacement.empty()) {
       ++out.after[g];
       k = next;
@@ -391,11 +405,114 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
     ed.rule = chosen->is_name ? &pk.names()[chosen->set].where : &pk.sets()[chosen->set].where;
     if (ed.replacement != original) {
       article_agreement(field, text, k, ed.replacement, out);
-      out.edits.push_back(std::move(ed));
+      bool plural_subject = e_.verbs_ && chosen->tag == pack::Tag::subj && replacement == "they" &&
+                            e_.pack_->language() == "en";
+      size_t skip_to = next;
+      if (plural_subject) {
+        skip_to = verb_agreement(field, text, k, len, clitic, ed, out);
+      } else {
+        out.edits.push_back(std::move(ed));
+      }
       out.entry_hits.push_back(hit);
+      k = skip_to;
+      continue;
     }
     k = next;
   }
+}
+
+// Case of `original` carried to `replacement`, with its apostrophe style.
+static std::string recase(std::string_view original, std::string_view replacement) {
+  std::string out;
+  text::apply_case(replacement, text::case_pattern(original), out);
+  if (original.find("\xE2\x80\x99") != std::string_view::npos) {
+    std::string curly;
+    for (char c : out) {
+      if (c == '\'')
+        curly += "\xE2\x80\x99";
+      else
+        curly += c;
+    }
+    out = std::move(curly);
+  }
+  return out;
+}
+
+size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size_t k, size_t len,
+                                     uint32_t clitic, Edit& pronoun, RecordResult& out) {
+  const VerbTable& verbs = *e_.verbs_;
+  size_t last = k + len - 1;
+  auto word_at = [&](size_t j) {
+    return j < items_.size() && items_[j].kind == text::TokenKind::word;
+  };
+  auto raw = [&](size_t j) {
+    return text.substr(items_[j].begin, items_[j].end - items_[j].begin);
+  };
+  auto agree = [&](size_t j, std::string_view form, std::string note) {
+    Edit e;
+    e.field = field;
+    e.begin = items_[j].begin;
+    e.end = items_[j].end;
+    e.replacement = recase(raw(j), form);
+    e.reason = EditReason::agreement;
+    e.note = std::move(note);
+    return e;
+  };
+  // "she and I": the subject is plural already; the verb stays. ("Tom and he" is handled
+  // below: after "and" a verb that is not singular is left alone without a flag.)
+  bool after_and = k > 0 && folded(k - 1) == "and";
+  if (last + 1 < items_.size() && folded(last + 1) == "and") {
+    out.edits.push_back(std::move(pronoun));
+    return last;
+  }
+  // "she's": the clitic stands for "is" or "has".
+  if (clitic > 0) {
+    std::vector<std::string_view> following;
+    for (size_t j = last + 1; j < items_.size() && following.size() < 8; ++j)
+      following.push_back(folded(j));
+    auto c = verbs.resolve_s(following);
+    std::string_view cl = text.substr(pronoun.end, clitic);
+    if (cl.size() >= 2 && (cl.substr(cl.size() - 1) == "s" || cl.substr(cl.size() - 1) == "S")) {
+      auto kind = c.kind == VerbTable::Contraction::unknown ? c.lean : c.kind;
+      if (c.kind == VerbTable::Contraction::unknown)
+        out.flags.push_back({"unsettled_contraction", "'s: " + c.reason});
+      std::string apostrophe(cl.substr(0, cl.size() - 1));
+      bool upper = cl.back() == 'S';
+      std::string tail =
+          kind == VerbTable::Contraction::have ? (upper ? "VE" : "ve") : (upper ? "RE" : "re");
+      pronoun.end += clitic;
+      pronoun.replacement += apostrophe + tail;
+      pronoun.note = std::string("'s as ") + (kind == VerbTable::Contraction::have ? "has" : "is") +
+                     (c.reason.empty() ? "" : ": " + c.reason);
+    }
+    out.edits.push_back(std::move(pronoun));
+    return last;
+  }
+  // "Is she", "Does he", "..., isn't she?": the verb stands before the pronoun.
+  if (k > 0 && word_at(k - 1) && verbs.is_third_singular(folded(k - 1))) {
+    auto a = verbs.pluralize(folded(k - 1));
+    if (a.kind == VerbTable::Answer::plural) {
+      out.edits.push_back(agree(k - 1, a.form, "verb before its subject"));
+      out.edits.push_back(std::move(pronoun));
+      return last;
+    }
+  }
+  out.edits.push_back(std::move(pronoun));
+  // The verb after the subject, past adverbs ("she often goes").
+  size_t j = last + 1;
+  while (word_at(j) && verbs.is_preverbal_adverb(folded(j))) ++j;
+  if (!word_at(j)) return last;  // punctuation or the end: nothing to agree
+  auto a = verbs.pluralize(folded(j));
+  if (after_and && a.kind != VerbTable::Answer::plural) return last;
+  if (a.kind == VerbTable::Answer::plural) {
+    out.edits.push_back(agree(j, a.form, "verb agrees with plural subject"));
+    return j;
+  }
+  if (a.kind == VerbTable::Answer::unknown) {
+    out.flags.push_back(
+        {"unsettled_verb", "'" + std::string(raw(j)) + "' after the subject: " + a.reason});
+  }
+  return last;
 }
 
 void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResult& out) {
@@ -440,8 +557,14 @@ Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::Compiled
     if (!m.ok()) return std::move(m).error();
     model = std::move(*m);
   }
-  return std::unique_ptr<Engine>(
-      std::make_unique<LexiconEngine>(std::move(pack), std::move(*ps), std::move(model), options));
+  std::shared_ptr<const VerbTable> verbs;
+  if (pack->file("verbs.data")) {
+    auto v = VerbTable::from_pack(*pack);
+    if (!v.ok()) return std::move(v).error();
+    verbs = std::move(*v);
+  }
+  return std::unique_ptr<Engine>(std::make_unique<LexiconEngine>(
+      std::move(pack), std::move(*ps), std::move(model), std::move(verbs), options));
 }
 
 }  // namespace evenhand::rewrite

@@ -157,3 +157,70 @@ TEST_CASE("a and an are chosen again when the next word changes") {
   for (const auto& e : rw.result.edits) agreement |= e.reason == rewrite::EditReason::agreement;
   REQUIRE(agreement);
 }
+
+namespace {
+
+// A three-group pack written for these tests, with the shipped English verb table
+// (rules/en-gender/verbs.data, converted from WordNet 3.0) and her/his model.
+std::shared_ptr<const pack::CompiledPack> neutral_pack() {
+  auto en = pack::builtin_pack_files("en-gender");
+  REQUIRE(en.has_value());
+  std::map<std::string, std::string> files = {
+      {"pack.txt",
+       "pack tri\nversion 0.1.0\nlanguage en\naxis gender\ngroups female male neutral\n"
+       "[sets]\nshe | he | they @subj\nher | him | them @obj\nher | his | their @det\n"
+       "hers | his | theirs @poss\nherself | himself | themself\nmother | father | parent\n"
+       "aunt | uncle | -\n"},
+      {"verbs.data", en->at("verbs.data")},
+      {"possessive.model", en->at("possessive.model")}};
+  std::vector<pack::Diagnostic> diags;
+  auto p = pack::load_pack_files("tri", files, diags);
+  REQUIRE(p.ok());
+  return *p;
+}
+
+}  // namespace
+
+TEST_CASE("toward neutral: pronouns, verbs after the subject, questions, contractions") {
+  rewrite::EngineOptions o;
+  o.toward = 2;
+  Rewriter rw(neutral_pack(), o);
+  // Invented sentences of a ferry-service scenario.
+  REQUIRE(rw("She goes to the pier.") == "They go to the pier.");
+  REQUIRE(rw("He often watches the tide.") == "They often watch the tide.");
+  REQUIRE(rw("She is late and he was early.") == "They are late and they were early.");
+  REQUIRE(rw("He doesn't know; she hasn't called.") == "They don't know; they haven't called.");
+  REQUIRE(rw("Is she ready? Does he sail?") == "Are they ready? Do they sail?");
+  REQUIRE(rw("She's going home.") == "They're going home.");
+  REQUIRE(rw("He's been at sea.") == "They've been at sea.");
+  REQUIRE(rw("She can sail and he went home.") == "They can sail and they went home.");
+  REQUIRE(rw("She and I are friends.") == "They and I are friends.");
+  REQUIRE(rw("Tom and she are friends.") == "Tom and they are friends.");
+  REQUIRE(rw("Her mother thanked him.") == "Their parent thanked them.");
+  REQUIRE(rw("My aunt steers.") == "My aunt steers.");  // no neutral form: left as it is
+  REQUIRE(rw("The rope is hers.") == "The rope is theirs.");
+  REQUIRE(rw("They sail.") == "They sail.");  // neutral forms stay
+}
+
+TEST_CASE("toward neutral flags a verb it cannot settle") {
+  rewrite::EngineOptions o;
+  o.toward = 2;
+  Rewriter rw(neutral_pack(), o);
+  rw("She lead the crew.");  // not a 3sg form: cannot tell what was meant
+  REQUIRE_FALSE(rw.result.flags.empty());
+  REQUIRE(rw.result.flags.front().code == "unsettled_verb");
+  rw("She sails.");
+  REQUIRE(rw.result.flags.empty());
+}
+
+TEST_CASE("themselves instead of themself on request; toward one binary group") {
+  rewrite::EngineOptions o;
+  o.toward = 2;
+  o.themselves = true;
+  Rewriter rw(neutral_pack(), o);
+  REQUIRE(rw("She did it herself.") == "They did it themselves.");
+  rewrite::EngineOptions m;
+  m.toward = 1;
+  Rewriter to_male(neutral_pack(), m);
+  REQUIRE(to_male("She told her mother; they agreed.") == "He told his father; they agreed.");
+}
