@@ -247,6 +247,60 @@ TEST_CASE("a pack with three groups loads and maps between all of them", "[pack]
   CHECK(has(bad, "words.txt:3", "set-columns"));
 }
 
+TEST_CASE("with three groups a neutral form maps back to one set of its tag", "[pack][lexicon]") {
+  const std::string header =
+      "pack three\nversion 0.1.0\nlanguage en\naxis gender\ngroups female male neutral\n";
+  auto three = [&](const std::string& words) {
+    return load({{"pack.txt", header}, {"words.txt", words}});
+  };
+  // The shape of the shipped pack: "her" and "his" in two tagged sets each, every neutral
+  // form in one set only, '-' where there is none.
+  Loaded ok = three(
+      "[sets]\n"
+      "she | he | they @subj\n"
+      "her | him | them @obj\n"
+      "her | his | their @det\n"
+      "hers | his | theirs @poss\n"
+      "daughter | son | child\n"
+      "girl | boy | kid @noun\n"
+      "niece | nephew | -\n"
+      "- | fireman | firefighter\n"
+      "daughter-in-law | son-in-law | child-in-law\n");
+  INFO(all(ok));
+  REQUIRE(ok.pack);
+  const LexEntry* their = find_entry(*ok.pack, {"their"});
+  REQUIRE(their != nullptr);
+  CHECK(their->group == 2);
+  CHECK(their->tag == Tag::det);
+  CHECK(ok.pack->sets()[their->set].forms[0] == "her");
+  const LexEntry* niece = find_entry(*ok.pack, {"niece"});
+  REQUIRE(niece != nullptr);
+  CHECK(ok.pack->sets()[niece->set].forms[2].empty());
+  const LexEntry* fireman = find_entry(*ok.pack, {"fireman"});
+  REQUIRE(fireman != nullptr);
+  CHECK(ok.pack->sets()[fireman->set].forms[0].empty());
+
+  // "child" in two untagged sets: two female counterparts, no tag to choose.
+  Loaded twice = three("[sets]\ndaughter | son | child\ngirl | boy | child\n");
+  CHECK(has(twice, "words.txt:3", "form-ambiguous"));
+  // The same neutral form under two different tags is a choice the engine can make.
+  Loaded tagged = three("[sets]\nher | him | them @obj\nhers | his | them @poss\n");
+  INFO(all(tagged));
+  CHECK(tagged.pack != nullptr);
+  // A neutral form that is the male form of another set: one form in two groups.
+  Loaded actor = three("[sets]\nactress | actor | -\nstarlet | - | actor\n");
+  CHECK(has(actor, "words.txt:3", "form-conflict"));
+  // "child-in-law" would become "daughter-in-law" word by word, and that has no neutral form
+  // to map back to.
+  Loaded in_law = three("[sets]\ndaughter | son | child\ndaughter-in-law | son-in-law | -\n");
+  CHECK(has(in_law, "words.txt:3", "not-reversible"));
+  // Multiword neutral forms whose words are no forms are fine ("police officer").
+  Loaded officer = three("[sets]\npolicewoman | policeman | police officer\n");
+  INFO(all(officer));
+  REQUIRE(officer.pack);
+  CHECK(find_entry(*officer.pack, {"police", "officer"}) != nullptr);
+}
+
 TEST_CASE("load_pack_dir reads the .txt files of a folder", "[pack][lexicon]") {
   namespace fs = std::filesystem;
   fs::path dir = fs::temp_directory_path() / "evenhand_pack_dir_test";

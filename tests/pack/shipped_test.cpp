@@ -1,10 +1,13 @@
 // The shipped English gender pack (rules/en-gender/, built into the binary): it loads cleanly,
-// is big enough, covers the definitional gender pairs in both directions, maps every form back
-// to where it came from, and spells every form as the hunspell en_US dictionary does.
+// has the groups female, male and neutral, is big enough, covers the definitional gender pairs
+// in both directions, maps the singular-they pronouns and the common neutral nouns, maps every
+// form back to where it came from, and spells every form as the hunspell en_US dictionary does.
 #include <unistd.h>
+#include <array>
 #include <catch2/catch.hpp>
 #include <cstdio>
 #include <fstream>
+#include <map>
 #include <set>
 
 #include "pack_test_util.h"
@@ -40,6 +43,18 @@ std::set<std::string> counterparts(const CompiledPack& p, const std::string& wor
   return out;
 }
 
+// The set in which `word` is a form of group `group` with tag `tag`, or null.
+const WordSet* set_of(const CompiledPack& p, const std::string& word, uint16_t group,
+                      Tag tag = Tag::none) {
+  std::vector<std::string> words;
+  for (const auto& t : form_tokens(word)) words.push_back(fold_word(t));
+  const auto* list = p.lookup(words.front());
+  if (!list) return nullptr;
+  for (const auto& e : *list)
+    if (e.words == words && e.group == group && !e.is_name && e.tag == tag) return &p.sets()[e.set];
+  return nullptr;
+}
+
 }  // namespace
 
 TEST_CASE("the en-gender pack is built in and loads with no diagnostics", "[pack][shipped]") {
@@ -48,10 +63,11 @@ TEST_CASE("the en-gender pack is built in and loads with no diagnostics", "[pack
   CHECK(std::is_sorted(names.begin(), names.end()));
   auto p = shipped();
   CHECK(p->name() == "en-gender");
-  CHECK(p->version() == "1.0.0");
+  CHECK(p->version() == "1.1.0");
   CHECK(p->language() == "en");
   CHECK(p->axis() == "gender");
-  CHECK(p->groups() == std::vector<std::string>{"female", "male"});
+  // The group names are fixed: scripts and --toward name them.
+  CHECK(p->groups() == std::vector<std::string>{"female", "male", "neutral"});
   CHECK(p->sets().size() >= 150);
   CHECK_FALSE(p->protected_phrases().empty());
   std::set<std::string> reasons;
@@ -92,6 +108,136 @@ TEST_CASE("the definitional gender pairs map in both directions", "[pack][shippe
   if (!p->names().empty()) {
     CHECK(counterparts(*p, "Mary", f, m).count("john") == 1);
     CHECK(counterparts(*p, "John", m, f).count("mary") == 1);
+  }
+}
+
+TEST_CASE("the singular-they pronouns are the neutral forms of the pronoun sets",
+          "[pack][shipped]") {
+  // source: Merriam-Webster, entry "they" (the sense for one person whose gender is unknown or
+  // nonbinary), and The Chicago Manual of Style, 17th ed., 2017 (singular they and themself),
+  // from memory.
+  auto p = shipped();
+  const uint16_t f = *p->group_index("female"), m = *p->group_index("male"),
+                 n = *p->group_index("neutral");
+  struct Row {
+    const char* female;
+    const char* male;
+    const char* neutral;
+    Tag tag;
+  };
+  const std::vector<Row> rows = {{"she", "he", "they", Tag::subj},
+                                 {"her", "him", "them", Tag::obj},
+                                 {"her", "his", "their", Tag::det},
+                                 {"hers", "his", "theirs", Tag::poss},
+                                 {"herself", "himself", "themself", Tag::none}};
+  for (const auto& r : rows) {
+    INFO(r.female << " | " << r.male << " | " << r.neutral << " @" << tag_name(r.tag));
+    const WordSet* from_f = set_of(*p, r.female, f, r.tag);
+    const WordSet* from_m = set_of(*p, r.male, m, r.tag);
+    const WordSet* from_n = set_of(*p, r.neutral, n, r.tag);
+    REQUIRE(from_f != nullptr);
+    REQUIRE(from_m != nullptr);
+    REQUIRE(from_n != nullptr);
+    // One set, seen from each of its three forms.
+    CHECK(from_f == from_m);
+    CHECK(from_f == from_n);
+    CHECK(from_f->forms[n] == r.neutral);
+    CHECK(from_n->forms[f] == r.female);
+    CHECK(from_n->forms[m] == r.male);
+  }
+  // she -> they, him -> them, her (determiner) -> their; "her" as object is "them".
+  CHECK(counterparts(*p, "she", f, n) == std::set<std::string>{"they"});
+  CHECK(counterparts(*p, "him", m, n) == std::set<std::string>{"them"});
+  CHECK(counterparts(*p, "her", f, n) == (std::set<std::string>{"them", "their"}));
+  CHECK(set_of(*p, "her", f, Tag::det)->forms[n] == "their");
+  CHECK(set_of(*p, "her", f, Tag::obj)->forms[n] == "them");
+  // "his" is determiner or possessive pronoun: their / theirs.
+  CHECK(counterparts(*p, "his", m, n) == (std::set<std::string>{"their", "theirs"}));
+  // And back: each neutral pronoun has one female and one male counterpart.
+  CHECK(counterparts(*p, "they", n, f) == std::set<std::string>{"she"});
+  CHECK(counterparts(*p, "them", n, m) == std::set<std::string>{"him"});
+  CHECK(counterparts(*p, "their", n, f) == std::set<std::string>{"her"});
+  CHECK(counterparts(*p, "theirs", n, m) == std::set<std::string>{"his"});
+}
+
+TEST_CASE("neutral nouns where English has them, '-' where it has none", "[pack][shipped]") {
+  auto p = shipped();
+  const uint16_t f = *p->group_index("female"), m = *p->group_index("male"),
+                 n = *p->group_index("neutral");
+  // source: the U.S. Department of Labor's Dictionary of Occupational Titles, 4th ed., 1977,
+  // which replaced sex-specific job titles by neutral ones (flight attendant for stewardess,
+  // police officer for policeman), from memory; the kinship and other nouns are common
+  // practice.
+  const std::vector<std::array<const char*, 3>> with_neutral = {
+      {"woman", "man", "person"},
+      {"women", "men", "people"},
+      {"woman's", "man's", "person's"},
+      {"mother", "father", "parent"},
+      {"mothers", "fathers", "parents"},
+      {"sister", "brother", "sibling"},
+      {"wife", "husband", "spouse"},
+      {"daughter", "son", "child"},
+      {"daughters", "sons", "children"},
+      {"grandmother", "grandfather", "grandparent"},
+      {"granddaughter", "grandson", "grandchild"},
+      {"chairwoman", "chairman", "chairperson"},
+      {"spokeswoman", "spokesman", "spokesperson"},
+      {"businesswoman", "businessman", "businessperson"},
+      {"stewardess", "steward", "flight attendant"},
+      {"waitress", "waiter", "server"},
+      {"queen", "king", "monarch"},
+      {"policewoman", "policeman", "police officer"},
+      {"Mrs", "Mr", "Mx"},
+  };
+  for (const auto& [fw, mw, nw] : with_neutral) {
+    INFO(fw << " | " << mw << " | " << nw);
+    CHECK(counterparts(*p, fw, f, n) == std::set<std::string>{fold_word(nw)});
+    CHECK(counterparts(*p, mw, m, n) == std::set<std::string>{fold_word(nw)});
+    CHECK(counterparts(*p, nw, n, f) == std::set<std::string>{fold_word(fw)});
+    CHECK(counterparts(*p, nw, n, m) == std::set<std::string>{fold_word(mw)});
+  }
+  // "firewoman" is not in the dictionary: the set has a male and a neutral form only.
+  CHECK(counterparts(*p, "fireman", m, n) == std::set<std::string>{"firefighter"});
+  CHECK(counterparts(*p, "fireman", m, f).empty());
+  CHECK(counterparts(*p, "firefighter", n, m) == std::set<std::string>{"fireman"});
+
+  // Sets with no neutral form write '-' (an empty form): no common neutral word (niece |
+  // nephew, aunt | uncle, princess | prince, madam | sir, ladies | gentlemen), no neutral
+  // adjective (female | male), or the neutral word is the male form (actress | actor).
+  const std::vector<std::pair<const char*, const char*>> without = {
+      {"niece", "nephew"},  {"aunt", "uncle"},       {"princess", "prince"},
+      {"madam", "sir"},     {"ladies", "gentlemen"}, {"female", "male"},
+      {"actress", "actor"}, {"hostess", "host"},     {"heiress", "heir"}};
+  for (const auto& [fw, mw] : without) {
+    INFO(fw << " | " << mw);
+    const WordSet* set = set_of(*p, fw, f);
+    if (!set) set = set_of(*p, fw, f, Tag::noun);
+    REQUIRE(set != nullptr);
+    CHECK(set->forms[m] == mw);
+    CHECK(set->forms[n].empty());
+    CHECK(counterparts(*p, fw, f, n).empty());
+  }
+  // "actor" is the male form, so it cannot be a neutral one as well.
+  CHECK(set_of(*p, "actor", n) == nullptr);
+  // "child" is daughter | son's neutral form; girl | boy takes "kid".
+  CHECK(counterparts(*p, "child", n, f) == std::set<std::string>{"daughter"});
+  CHECK(counterparts(*p, "girl", f, n) == std::set<std::string>{"kid"});
+
+  // How many sets have a neutral form (printed; a floor so that the column is really used).
+  size_t neutral = 0, neutral_only = 0;
+  for (const auto& set : p->sets()) {
+    if (set.forms[n].empty()) continue;
+    ++neutral;
+    if (set.forms[f].empty() && set.forms[m].empty()) ++neutral_only;
+  }
+  WARN("en-gender: " << neutral << " of " << p->sets().size() << " sets have a neutral form");
+  CHECK(neutral >= 100);
+  CHECK(neutral < p->sets().size());
+  CHECK(neutral_only == 0);  // a neutral word alone would never be rewritten
+  // First names have no neutral counterpart.
+  for (const auto& pair : p->names()) {
+    INFO(pair.where.str());
+    CHECK(pair.names[n].empty());
   }
 }
 
@@ -137,6 +283,18 @@ TEST_CASE("every mapping of the shipped pack is reversible", "[pack][shipped]") 
     INFO(pair.where.str());
     CHECK(back == std::set<std::string>{fold_word(pair.names[0])});
   }
+  // Every neutral form is in one set of its tag, so it maps back to one female and one male
+  // form (the reverse mapping is unique).
+  const uint16_t n = *p->group_index("neutral");
+  std::map<std::pair<std::string, Tag>, std::string> seen;
+  for (const auto& set : p->sets()) {
+    if (set.forms[n].empty()) continue;
+    std::string key;
+    for (const auto& t : form_tokens(set.forms[n])) key += fold_word(t) + " ";
+    auto [it, fresh] = seen.emplace(std::make_pair(key, set.tag), set.where.str());
+    INFO(set.forms[n] << " at " << set.where.str() << " and " << it->second);
+    CHECK(fresh);
+  }
 }
 
 TEST_CASE("shipped lookups: curly apostrophes, case and multiword forms", "[pack][shipped]") {
@@ -154,7 +312,8 @@ TEST_CASE("shipped lookups: curly apostrophes, case and multiword forms", "[pack
     const auto* list = p->lookup(words.front());
     if (!list) return false;
     for (const auto& e : *list)
-      if (e.words == words && p->sets()[e.set].forms[1 - e.group] == counterpart) return true;
+      if (e.words == words && e.group < 2 && p->sets()[e.set].forms[1 - e.group] == counterpart)
+        return true;
     return false;
   };
   CHECK(has_entry({"mother", "-", "in", "-", "law"}, "father-in-law"));
@@ -162,6 +321,14 @@ TEST_CASE("shipped lookups: curly apostrophes, case and multiword forms", "[pack
   CHECK(has_entry({"great", "-", "grandmother"}, "great-grandfather"));
   CHECK(has_entry({"grandmothers", "'"}, "grandfathers'"));
   CHECK(has_entry({"ladies", "'"}, "gentlemen's"));
+  // Multiword neutral forms are entries under their first word.
+  const LexEntry* officer = nullptr;
+  if (const auto* list = p->lookup("police"))
+    for (const auto& e : *list)
+      if (e.words == std::vector<std::string>{"police", "officer"}) officer = &e;
+  REQUIRE(officer != nullptr);
+  CHECK(p->groups()[officer->group] == "neutral");
+  CHECK(p->sets()[officer->set].forms[0] == "policewoman");
   CHECK(p->max_entry_words() >= 5);
   // Longest first under every key.
   for (const std::string key : {"mother", "step", "great", "sister", "daughter"}) {
@@ -190,6 +357,9 @@ TEST_CASE("every word of the shipped sets is in the hunspell en_US dictionary",
        "plural of the accented spelling, see fiancé"},
       {"gentlemen's",
        "possessive of an irregular plural; the dictionary lists gentlemen without it"},
+      // source for both: Merriam-Webster lists "Mx" and "themself" (from memory).
+      {"Mx", "the title without gender; hunspell-en-us 2020.12.07 predates it"},
+      {"themself", "reflexive of singular they; hunspell-en-us 2020.12.07 lacks it"},
   };
   auto p = shipped();
   std::set<std::string> words;
@@ -199,10 +369,9 @@ TEST_CASE("every word of the shipped sets is in the hunspell en_US dictionary",
         if (t != "-" && t != "'") words.insert(t);
   REQUIRE(words.size() >= 300);
 
-  std::string tmp =
-      (std::filesystem::temp_directory_path() /
-       ("evenhand_pack_hunspell_words." + std::to_string(getpid()) + ".txt"))
-          .string();  // one file per process: ctest runs test cases in parallel
+  std::string tmp = (std::filesystem::temp_directory_path() /
+                     ("evenhand_pack_hunspell_words." + std::to_string(getpid()) + ".txt"))
+                        .string();  // one file per process: ctest runs test cases in parallel
   {
     std::ofstream out(tmp);
     for (const auto& w : words) out << w << '\n';
