@@ -4,7 +4,8 @@
 # evenhand's own pass-through on the same file and thread count. Prints a Markdown table.
 #
 # Environment: BENCH_RUNS (default 3), BENCH_THREADS (default "1 2"), BENCH_PACK (default
-# en-gender), BENCH_NAIVE_RUNS (default BENCH_RUNS), EVENHAND (binary).
+# en-gender), BENCH_NAIVE_RUNS (default BENCH_RUNS), EVENHAND (binary), BENCH_QUIET_LOAD (as
+# in passthrough.sh).
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 BENCH_LOG="$WORK/augment.log"
@@ -14,6 +15,10 @@ NAIVE_RUNS="${BENCH_NAIVE_RUNS:-$RUNS}"
 FIELDS=(--field /text --field '/messages/*/content')
 
 check_tools
+if [[ -n "${BENCH_QUIET_LOAD:-}" ]]; then  # e.g. 0.5: wait up to BENCH_WAIT s for a quiet machine
+  echo "waiting for the 1-minute load to fall below $BENCH_QUIET_LOAD (now $(load1))" >&2
+  wait_for_low_load "$BENCH_QUIET_LOAD" > /dev/null
+fi
 need_input corpus-1x.jsonl.zst
 X="$DATA/corpus-1x.jsonl.zst"
 if ! "$EVENHAND" check --pack "$PACK" > "$WORK/check.out" 2>&1 &&
@@ -53,7 +58,8 @@ for ((r = 1; r <= RUNS || r <= NAIVE_RUNS; r++)); do
 done
 
 n_mbps=$(mbps "$bytes" "$(median "${nw[@]}")")
-echo "Augment, $(date -u '+%F %H:%M UTC'), $(machine_line), $("$EVENHAND" --version), pack $PACK"
+echo "Augment, $(date -u "+%F %H:%M UTC"), $(machine_line), pack $PACK"
+echo "$(binary_line)"
 echo "Input corpus-1x.jsonl.zst, $(awk -v b="$bytes" 'BEGIN{printf "%.0f", b/1e6}') MB uncompressed."
 echo "Load average (1 min) at start: $load_start; runs per cell: $RUNS evenhand, $NAIVE_RUNS"
 echo "naive_swap.py (median wall time and median CPU time, user + system; peak RSS is the largest"

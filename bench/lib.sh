@@ -107,3 +107,9 @@ machine_line() {
   mem=$(awk '/^MemTotal/ { printf "%.1f GiB", $2 / 1048576 }' /proc/meminfo)
   echo "nproc $(nproc), ${cpu:-unknown CPU}, RAM $mem"
 }
+
+# binary_line: the evenhand version, the binary's modification time and the checkout's commit.
+binary_line() {
+  echo "$("$EVENHAND" --version), binary built $(date -u -r "$EVENHAND" '+%F %H:%M UTC')," \
+    "checkout $(git -C "$ROOT" rev-parse --short HEAD 2>/dev/null || echo unknown)"
+}

@@ -4,7 +4,8 @@
 # `zstd -dc X | zstd -3 -c > Y.zst` on the same file. Prints a Markdown table.
 #
 # Environment: BENCH_RUNS (default 3), BENCH_THREADS (default "1 2"), BENCH_INPUTS (default
-# "1x 4x"), BENCH_VERIFY=0 to skip the byte-identity check of the output, EVENHAND (binary).
+# "1x 4x"), BENCH_VERIFY=0 to skip the byte-identity check of the output, EVENHAND (binary),
+# BENCH_QUIET_LOAD=0.5 to wait (up to BENCH_WAIT seconds, default 300) for a quiet machine.
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 BENCH_LOG="$WORK/passthrough.log"
@@ -13,11 +14,16 @@ INPUTS="${BENCH_INPUTS:-1x 4x}"
 VERIFY="${BENCH_VERIFY:-1}"
 
 check_tools
+if [[ -n "${BENCH_QUIET_LOAD:-}" ]]; then  # e.g. 0.5: wait up to BENCH_WAIT s for a quiet machine
+  echo "waiting for the 1-minute load to fall below $BENCH_QUIET_LOAD (now $(load1))" >&2
+  wait_for_low_load "$BENCH_QUIET_LOAD" > /dev/null
+fi
 for in in $INPUTS; do need_input "corpus-$in.jsonl.zst"; done
 
 load_start=$(load1)
 echo "# passthrough $(date -u +%FT%TZ) load=$load_start" >> "$BENCH_LOG"
-echo "Pass-through, $(date -u '+%F %H:%M UTC'), $(machine_line), $("$EVENHAND" --version)"
+echo "Pass-through, $(date -u "+%F %H:%M UTC"), $(machine_line)"
+echo "$(binary_line)"
 echo "Load average (1 min) at start: $load_start; runs per cell: $RUNS (median wall time and"
 echo "median CPU time, user + system; peak RSS is the largest of the runs)."
 echo
