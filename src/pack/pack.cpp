@@ -36,8 +36,15 @@ std::optional<uint16_t> CompiledPack::group_index(std::string_view name) const {
 }
 
 const std::vector<LexEntry>* CompiledPack::lookup(std::string_view folded_word) const {
-  auto it = index_.find(std::string(folded_word));
+  auto it = index_.find(folded_word);
   return it == index_.end() ? nullptr : &it->second;
+}
+
+std::vector<std::string_view> CompiledPack::keys() const {
+  std::vector<std::string_view> out;
+  out.reserve(index_.size());
+  for (const auto& kv : index_) out.push_back(kv.first);
+  return out;
 }
 
 const std::string* CompiledPack::file(std::string_view name) const {

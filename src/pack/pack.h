@@ -98,6 +98,9 @@ class CompiledPack {
   // All lexicon entries whose first folded word is `folded_word` (longest first), or null.
   const std::vector<LexEntry>* lookup(std::string_view folded_word) const;
 
+  // Every first folded word the lexicon has entries for, in no particular order.
+  std::vector<std::string_view> keys() const;
+
   // The most words any entry has (for multiword matching windows).
   size_t max_entry_words() const { return max_words_; }
 
@@ -117,7 +120,12 @@ class CompiledPack {
   std::vector<Guard> guards_;
   std::vector<std::string> protected_;
   std::vector<std::pair<std::string, std::string>> meta_;
-  std::unordered_map<std::string, std::vector<LexEntry>> index_;
+  // Transparent hash, so lookup() finds a string_view without building a string.
+  struct KeyHash {
+    using is_transparent = void;
+    size_t operator()(std::string_view s) const { return std::hash<std::string_view>{}(s); }
+  };
+  std::unordered_map<std::string, std::vector<LexEntry>, KeyHash, std::equal_to<>> index_;
   size_t max_words_ = 1;
   std::map<std::string, std::string, std::less<>> files_;
 };

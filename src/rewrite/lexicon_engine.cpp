@@ -10,6 +10,7 @@
 //   decision is counted as ambiguous.
 // - Mentions inside protected spans are neither counted nor edited.
 #include <algorithm>
+#include <bitset>
 #include <cstring>
 #include <unordered_map>
 
@@ -36,13 +37,33 @@ const char* const kClitics[] = {"'s", "'d", "'ll", "'re", "'ve", "'m"};
 // not listed.
 const char* const kTitles[] = {"mr", "mrs", "ms", "miss", "mx", "dr", "prof"};
 
+// A quick hash for short words (multiply-xorshift over 8-byte blocks); the standard one
+// dominated profiles, since every token is looked up.
+struct WordHash {
+  using is_transparent = void;
+  size_t operator()(std::string_view s) const {
+    uint64_t h = 0x9E3779B97F4A7C15ULL ^ s.size();
+    size_t i = 0;
+    for (; i + 8 <= s.size(); i += 8) {
+      uint64_t v;
+      std::memcpy(&v, s.data() + i, 8);
+      h = (h ^ v) * 0xff51afd7ed558ccdULL;
+      h ^= h >> 32;
+    }
+    uint64_t v = 0;
+    std::memcpy(&v, s.data() + i, s.size() - i);
+    h = (h ^ v) * 0xc4ceb9fe1a85ec53ULL;
+    return static_cast<size_t>(h ^ (h >> 29));
+  }
+};
+
 // Folded phrases (guards, protected expressions) indexed by their first token.
 struct PhraseIndex {
   struct Phrase {
     std::vector<std::string> tokens;
     uint32_t index = 0;  // into the pack's list
   };
-  std::unordered_map<std::string, std::vector<Phrase>> by_first;
+  std::unordered_map<std::string, std::vector<Phrase>, WordHash, std::equal_to<>> by_first;
 
   void add(std::string_view text, uint32_t index) {
     Phrase p;
@@ -59,6 +80,55 @@ struct PhraseIndex {
 
 class LexiconEngine;
 
+// What one folded word starts: lexicon entries, guard phrases, protected phrases. One hash
+// lookup per token finds all three.
+struct WordSlots {
+  const std::vector<pack::LexEntry>* lex = nullptr;
+  const std::vector<PhraseIndex::Phrase>* guard = nullptr;
+  const std::vector<PhraseIndex::Phrase>* prot = nullptr;
+};
+
+// An open-addressing table from folded word to WordSlots, with a 64 Kibit filter in front:
+// most tokens are in no pack, and the filter (8 KiB, in L1 cache) turns them away without
+// touching the table. Built once; read-only afterwards.
+class WordIndex {
+ public:
+  WordSlots& operator[](const std::string& key) { return build_[key]; }
+  void freeze() {
+    size_t cap = 16;
+    while (cap < build_.size() * 2) cap <<= 1;
+    mask_ = cap - 1;
+    slots_.assign(cap, Slot{});
+    for (auto& [key, v] : build_) {
+      uint64_t h = WordHash{}(key);
+      filter_[(h >> 48) & 0xffff] = true;
+      size_t i = h & mask_;
+      while (slots_[i].used) i = (i + 1) & mask_;
+      slots_[i] = Slot{true, h, key, v};
+    }
+  }
+  const WordSlots* find(std::string_view key) const {
+    uint64_t h = WordHash{}(key);
+    if (!filter_[(h >> 48) & 0xffff]) return nullptr;
+    for (size_t i = h & mask_; slots_[i].used; i = (i + 1) & mask_) {
+      if (slots_[i].hash == h && slots_[i].key == key) return &slots_[i].value;
+    }
+    return nullptr;
+  }
+
+ private:
+  struct Slot {
+    bool used = false;
+    uint64_t hash = 0;
+    std::string key;
+    WordSlots value;
+  };
+  std::unordered_map<std::string, WordSlots, WordHash, std::equal_to<>> build_;
+  std::vector<Slot> slots_;
+  std::bitset<65536> filter_;
+  size_t mask_ = 0;
+};
+
 class LexiconWorker final : public Worker {
  public:
   explicit LexiconWorker(const LexiconEngine& e) : e_(e) {}
@@ -69,6 +139,7 @@ class LexiconWorker final : public Worker {
     uint32_t begin = 0, end = 0;  // bytes in the field
     uint32_t fold_off = 0, fold_len = 0;
     text::TokenKind kind = text::TokenKind::punct;
+    const WordSlots* slots = nullptr;  // what this folded word starts, if anything
   };
   void prepare_field(std::string_view field);
   std::string_view folded(size_t k) const {
@@ -77,8 +148,8 @@ class LexiconWorker final : public Worker {
   // Length in items of a match of `words` at item k (0 if none); `clitic` gets the bytes of
   // a clitic left on the last word.
   size_t match_at(size_t k, const std::vector<std::string>& words, uint32_t& clitic) const;
-  bool phrase_at(const PhraseIndex& idx, size_t k, const PhraseIndex::Phrase** hit,
-                 size_t* len) const;
+  // A guard (`guard`) or protected phrase starting at item k.
+  bool phrase_at(bool guard, size_t k, const PhraseIndex::Phrase** hit, size_t* len) const;
   bool sentence_start(size_t k) const;
   // Makes the verb agree with a subject pronoun that became "they" (the pronoun edit is
   // `pronoun`, at items k..k+len-1); pushes the edits in order and returns the last item used.
@@ -129,6 +200,10 @@ class LexiconEngine final : public Engine {
     for (uint32_t i = 0; i < pack_->guards().size(); ++i) guards_.add(pack_->guards()[i].phrase, i);
     for (uint32_t i = 0; i < pack_->protected_phrases().size(); ++i)
       protected_.add(pack_->protected_phrases()[i], i);
+    for (std::string_view key : pack_->keys()) words_[std::string(key)].lex = pack_->lookup(key);
+    for (const auto& [key, v] : guards_.by_first) words_[key].guard = &v;
+    for (const auto& [key, v] : protected_.by_first) words_[key].prot = &v;
+    words_.freeze();
   }
   const pack::CompiledPack* pack() const override { return pack_.get(); }
   std::unique_ptr<Worker> make_worker() const override {
@@ -143,6 +218,7 @@ class LexiconEngine final : public Engine {
   std::vector<uint16_t> target_;
   PhraseIndex guards_;
   PhraseIndex protected_;
+  WordIndex words_;
 };
 
 bool is_ascii(std::string_view s) {
@@ -165,11 +241,19 @@ void LexiconWorker::prepare_field(std::string_view field) {
     it.fold_off = static_cast<uint32_t>(fold_.size());
     std::string_view s = field.substr(t.begin, t.end - t.begin);
     if (is_ascii(s)) {
-      for (char c : s) fold_ += (c >= 'A' && c <= 'Z') ? static_cast<char>(c + 32) : c;
+      size_t at = fold_.size();
+      fold_.append(s);
+      for (size_t i = at; i < fold_.size(); ++i) {
+        char c = fold_[i];
+        if (c >= 'A' && c <= 'Z') fold_[i] = static_cast<char>(c + 32);
+      }
     } else {
       fold_ += pack::fold_word(s);
     }
     it.fold_len = static_cast<uint32_t>(fold_.size() - it.fold_off);
+    if (t.kind == text::TokenKind::word) {
+      it.slots = e_.words_.find(std::string_view(fold_.data() + it.fold_off, it.fold_len));
+    }
     items_.push_back(it);
   }
   spans_.clear();
@@ -179,7 +263,7 @@ void LexiconWorker::prepare_field(std::string_view field) {
   for (size_t k = 0; k < items_.size(); ++k) {
     const PhraseIndex::Phrase* hit;
     size_t len;
-    if (phrase_at(e_.protected_, k, &hit, &len)) {
+    if (phrase_at(false, k, &hit, &len)) {
       spans_.push_back({items_[k].begin, items_[k + len - 1].end, text::pack_phrase});
       added = true;
       k += len - 1;
@@ -191,12 +275,13 @@ void LexiconWorker::prepare_field(std::string_view field) {
   }
 }
 
-bool LexiconWorker::phrase_at(const PhraseIndex& idx, size_t k, const PhraseIndex::Phrase** hit,
+bool LexiconWorker::phrase_at(bool guard, size_t k, const PhraseIndex::Phrase** hit,
                               size_t* len) const {
-  if (idx.by_first.empty()) return false;
-  auto it = idx.by_first.find(std::string(folded(k)));
-  if (it == idx.by_first.end()) return false;
-  for (const auto& p : it->second) {
+  const WordSlots* slots = items_[k].slots;
+  const std::vector<PhraseIndex::Phrase>* phrases =
+      slots ? (guard ? slots->guard : slots->prot) : nullptr;
+  if (phrases == nullptr) return false;
+  for (const auto& p : *phrases) {
     if (k + p.tokens.size() > items_.size()) continue;
     bool ok = true;
     for (size_t j = 1; j < p.tokens.size() && ok; ++j) ok = folded(k + j) == p.tokens[j];
@@ -286,7 +371,7 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
   const pack::CompiledPack& pk = *e_.pack_;
   for (size_t k = 0; k < items_.size(); ++k) {
     if (items_[k].kind != text::TokenKind::word) continue;
-    const auto* entries = pk.lookup(folded(k));
+    const auto* entries = items_[k].slots ? items_[k].slots->lex : nullptr;
     if (entries == nullptr) {
       // Try the word without a trailing clitic ("mother's" -> "mother").
       std::string_view f = folded(k);
@@ -528,7 +613,7 @@ void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResu
       for (size_t k = 0; k < items_.size(); ++k) {
         const PhraseIndex::Phrase* hit;
         size_t len;
-        if (phrase_at(e_.guards_, k, &hit, &len)) {
+        if (phrase_at(true, k, &hit, &len)) {
           guard = &e_.pack_->guards()[hit->index];
           break;
         }

@@ -158,6 +158,10 @@ struct Tokenizer::Impl {
     auto c = [&](size_t i) -> uint8_t { return i >= b && i < e ? cls[p[i]] : uint8_t(kOther); };
     size_t start = b;
     for (size_t i = b + 1; i <= e; ++i) {
+      // Fast path: inside a run of letters (or of spaces) no rule breaks (WB5, WB3d).
+      while (i < e && cls[p[i]] == cls[p[i - 1]] &&
+             (cls[p[i]] == kLetter || cls[p[i]] == kWSegSpace))
+        ++i;
       if (i < e && !breaks_at(c(i - 2), c(i - 1), c(i), c(i + 1))) continue;
       out.push_back(Token{uint32_t(start), uint32_t(i), ascii_kind(p, start, i)});
       start = i;
