@@ -1,7 +1,8 @@
 // Tests of the "her"/"his" slot model (src/rewrite/possessive.h): accuracy of the shipped model
-// on the Brown Corpus files it was not trained on, hand-written sentences, the scoring rule on a
-// hand-made model, model-file errors, and bit-for-bit reproducible training. The hidden test
-// "[.train]" is the training program (rules/tools/train-possessive.sh runs it).
+// on the Brown Corpus files it was not trained on, hand-written sentences, the scoring and the
+// rules on hand-made models, model-file errors, and bit-for-bit reproducible training. The hidden
+// test "[.train]" is the training program and "[.cv]" the cross-validation inside the training
+// files (rules/tools/train-possessive.sh runs them).
 #include "rewrite/possessive.h"
 
 #include <algorithm>
@@ -9,6 +10,7 @@
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
+#include <functional>
 #include <map>
 #include <sstream>
 #include <string>
@@ -160,32 +162,78 @@ std::string top_tag(const std::map<std::string, int>& counts,
   return total >= kLexiconMinCount ? tag : "";
 }
 
+// How often a word occurs, and how often right after a possessive determiner.
+struct PossessedCount {
+  int total = 0;
+  int after_possessive = 0;
+};
+
+constexpr int kPossessedMinCount = 3;
+constexpr int kEnsemble = 5;
+
+void count_possessed(const BrownSentence& s, std::map<std::string, PossessedCount>& counts) {
+  static const std::vector<std::string> poss = {"my", "your", "his", "her", "its", "our", "their"};
+  for (size_t k = 0; k < s.words.size(); ++k) {
+    PossessedCount& n = counts[s.words[k]];
+    ++n.total;
+    if (k > 0 && std::find(poss.begin(), poss.end(), s.words[k - 1]) != poss.end()) {
+      ++n.after_possessive;
+    }
+  }
+}
+
+// The share bin of `n` ("0".."4", bounds 2%, 8%, 20%, 45%; common practice, chosen by the
+// cross-validation inside the odd files), or "" below kPossessedMinCount occurrences.
+std::string possessed_label(const PossessedCount& n) {
+  if (n.total < kPossessedMinCount) return "";
+  int64_t p = n.after_possessive, t = n.total;
+  if (50 * p < t) return "0";
+  if (25 * p < 2 * t) return "1";
+  if (5 * p < t) return "2";
+  if (20 * p < 9 * t) return "3";
+  return "4";
+}
+
 struct TrainingSet {
   std::vector<PossessiveExample> examples;
   PossessiveTrainOptions options;
 };
 
-// Training examples and word classes from the odd-numbered files, in file and sentence order.
-// Each example's own sentence is left out of its neighbours' classes (leave-one-out).
-TrainingSet build_training_set(const std::vector<BrownFile>& files) {
+// Training examples and word classes from the files `use` accepts (by default the
+// odd-numbered ones), in file and sentence order. Each example's own sentence is left out of its
+// neighbours' classes (leave-one-out).
+TrainingSet build_training_set(
+    const std::vector<BrownFile>& files,
+    const std::function<bool(const BrownFile&)>& use = is_training_file) {
   std::map<std::string, std::map<std::string, int>> counts;
   for (const BrownFile& f : files) {
-    if (!is_training_file(f)) continue;
+    if (!use(f)) continue;
     for (const BrownSentence& s : f.sentences) {
       for (size_t k = 0; k < s.words.size(); ++k) {
         if (!s.tags[k].empty() && s.tags[k] != "nil") ++counts[s.words[k]][s.tags[k]];
       }
     }
   }
+  // How often each word follows a possessive determiner (by the previous word), for the
+  // "possessed" labels.
+  std::map<std::string, PossessedCount> possessed;
+  for (const BrownFile& f : files) {
+    if (!use(f)) continue;
+    for (const BrownSentence& s : f.sentences) count_possessed(s, possessed);
+  }
   TrainingSet set;
   for (const auto& [word, tags] : counts) {
     std::string tag = top_tag(tags);
     if (!tag.empty()) set.options.word_classes.emplace(word, tag);
   }
+  for (const auto& [word, n] : possessed) {
+    std::string label = possessed_label(n);
+    if (!label.empty()) set.options.possessed.emplace(word, label);
+  }
   for (const BrownFile& f : files) {
-    if (!is_training_file(f)) continue;
+    if (!use(f)) continue;
     for (const BrownSentence& s : f.sentences) {
-      std::vector<std::string> classes;
+      std::vector<std::string> classes, shares;
       for (size_t i = 0; i < s.words.size(); ++i) {
         int cls = training_class(s.words[i], s.tags[i]);
         if (cls < 0) continue;
@@ -198,16 +246,28 @@ TrainingSet build_training_set(const std::vector<BrownFile>& files) {
             auto it = counts.find(s.words[k]);
             classes.push_back(it == counts.end() ? "" : top_tag(it->second, &own[s.words[k]]));
           }
+          std::map<std::string, PossessedCount> own_possessed;
+          count_possessed(s, own_possessed);
+          for (const std::string& w : s.words) {
+            PossessedCount n = possessed[w];
+            n.total -= own_possessed[w].total;
+            n.after_possessive -= own_possessed[w].after_possessive;
+            shares.push_back(possessed_label(n));
+          }
         }
         PossessiveExample ex;
         ex.words = s.words;
         ex.index = static_cast<uint32_t>(i);
         ex.gold = static_cast<Decision::Kind>(cls);
         ex.classes = classes;
+        ex.possessed = shares;
         set.examples.push_back(std::move(ex));
       }
     }
   }
+  // Five perceptrons with consecutive seeds: in the cross-validation single ones got 1546 to
+  // 1549 of the 1645 "her" right over seven seeds, sums of five 1547 to 1551 over four.
+  set.options.ensemble = kEnsemble;
   set.options.comment =
       "Slot model for \"her\" and \"his\" (src/rewrite/possessive.h): averaged perceptron.\n"
       "Trained on the Brown Corpus (Francis & Kucera 1979), npm " +
@@ -216,6 +276,14 @@ TrainingSet build_training_set(const std::vector<BrownFile>& files) {
       "Word classes: most frequent Brown tag of each word seen at least " +
       std::to_string(kLexiconMinCount) +
       " times there.\n"
+      "Possessed: share of a word's occurrences right after my/your/his/her/its/our/their, in\n"
+      "bins 0 (< 2%) 1 (< 8%) 2 (< 20%) 3 (< 45%) 4, for words seen at least " +
+      std::to_string(kPossessedMinCount) +
+      " times.\n"
+      "Sum of " +
+      std::to_string(kEnsemble) + " averaged perceptrons (seeds " +
+      std::to_string(set.options.seed) +
+      " and on).\n"
       "Generated by rules/tools/train-possessive.sh; do not edit by hand.";
   return set;
 }
@@ -225,12 +293,16 @@ struct Accuracy {
   double value() const { return total ? static_cast<double>(right) / total : 0.0; }
 };
 
-// Accuracy of `model` on "her" (PP$ / PPO) and "his" (PP$ / PP$$) in the even-numbered files.
-void evaluate_even(const PossessiveModel& model, const std::vector<BrownFile>& files, Accuracy& her,
-                   Accuracy& his) {
+// Accuracy of `model` on "her" (PP$ / PPO) and "his" (PP$ / PP$$) in the files `use` accepts
+// (by default the even-numbered ones).
+void evaluate(
+    const PossessiveModel& model, const std::vector<BrownFile>& files, Accuracy& her, Accuracy& his,
+    const std::function<bool(const BrownFile&)>& use = [](const BrownFile& f) {
+      return !is_training_file(f);
+    }) {
   std::vector<std::string_view> view;
   for (const BrownFile& f : files) {
-    if (is_training_file(f)) continue;
+    if (!use(f)) continue;
     for (const BrownSentence& s : f.sentences) {
       view.assign(s.words.begin(), s.words.end());
       for (size_t i = 0; i < s.words.size(); ++i) {
@@ -313,11 +385,78 @@ const char* kTinyModel =
     "lamp\tnn\n"
     "features 3\n"
     "n1:lamp\t10\t-10\t0\n"
-    "n1:today\t-4\t4\t6\n"
+    "n1:anew\t-4\t4\t6\n"
     "wn:nn\t2\t0\t0\n"
     "end\n";
 
+// A model with word classes (Brown tags) and no weights, for the rules that read the classes.
+const char* kRuleModel =
+    "evenhand-possessive-model 1\n"
+    "scale 1\n"
+    "classes determiner object standalone\n"
+    "words 12\n"
+    "deeply\trb\n"
+    "face\tnn\n"
+    "going\tvbg\n"
+    "intensely\trb\n"
+    "lamp\tnn\n"
+    "lined\tvbn\n"
+    "out\trp\n"
+    "that\tcs\n"
+    "the\tat\n"
+    "up\trp\n"
+    "every\tat\n"
+    "back\trb\n"
+    "possessed 1\n"
+    "lamp\t2\n"
+    "features 0\n"
+    "end\n";
+
 }  // namespace
+
+TEST_CASE("possessive: the rules that come before the weights", "[possessive]") {
+  auto parsed = PossessiveModel::parse(kRuleModel, "rules");
+  REQUIRE(parsed.ok());
+  const PossessiveModel& m = *parsed.value();
+  CHECK(m.feature_count() == 0);
+  const float rule = evenhand::rewrite::kRuleScore;
+  struct Case {
+    const char* sentence;
+    Decision::Kind kind;  // by rule
+  };
+  // Before a finite form of be/have/do or a modal that is not also a noun.
+  // Before an adverb or particle not followed by a nominal; before an article, pronoun,
+  // subordinator or "to"; before a day word; before a verbal "-ing" form with a complement.
+  const std::vector<Case> by_rule = {
+      {"a rage of [his] would follow", Decision::standalone},
+      {"a lamp of [his] had been red", Decision::standalone},
+      {"what was nice about [her] was the lamp", Decision::object},
+      {"the keeper watched [her] intensely .", Decision::object},
+      {"he picked [her] up", Decision::object},
+      {"the pilot eyed [her] warily .", Decision::object},  // an unknown word in -ly
+      {"the pilot handed [her] the lamp", Decision::object},
+      {"he told [her] that it was late", Decision::object},
+      {"we dine with [her] tomorrow night", Decision::object},
+      {"the idea of [her] going out alone", Decision::object},
+  };
+  for (const Case& c : by_rule) {
+    INFO(c.sentence);
+    Decision d = decide_marked(m, c.sentence);
+    CHECK(d.kind == c.kind);
+    CHECK(d.score == rule);
+  }
+  // Not by rule: a nominal follows the adverb; "back" and "every" are left to the weights; an
+  // unknown "-ly" word before a comma or before an unknown word; a gerund without a complement;
+  // these rules are for "her" only; "will" is a noun too.
+  for (const char* s : {"she raised [her] deeply lined face", "he rubbed [her] back briefly",
+                        "he met [her] every wish", "she walked in [her] portly , grand way",
+                        "he eyed [her] warily and left", "she stopped [her] going .",
+                        "it was [his] going out that hurt", "he read [her] will aloud",
+                        "the lamp was [his] up there"}) {
+    INFO(s);
+    CHECK(decide_marked(m, s).score != rule);
+  }
+}
 
 TEST_CASE("possessive: the shipped model file loads", "[possessive]") {
   auto model = shipped_model();
@@ -333,16 +472,16 @@ TEST_CASE("possessive: scores follow the weights of a hand-made model", "[posses
   Decision d = decide_marked(m, "she lit [her] lamp");
   CHECK(d.kind == Decision::determiner);
   CHECK(d.score == Approx(11.0));
-  // "her today": (-4, 4) -> object, margin 8 / 2 = 4; standalone (6) is no choice for "her".
-  d = decide_marked(m, "we saw [her] today");
+  // "her anew": (-4, 4) -> object, margin 8 / 2 = 4; standalone (6) is no choice for "her".
+  d = decide_marked(m, "we saw [her] anew");
   CHECK(d.kind == Decision::object);
   CHECK(d.score == Approx(4.0));
-  // "his today": determiner -4 vs standalone 6 -> standalone, margin 10 / 2 = 5.
-  d = decide_marked(m, "it was [his] today");
+  // "his anew": determiner -4 vs standalone 6 -> standalone, margin 10 / 2 = 5.
+  d = decide_marked(m, "it was [his] anew");
   CHECK(d.kind == Decision::standalone);
   CHECK(d.score == Approx(5.0));
   // Any other word: all three compete; standalone 6 beats object 4 by 2 / 2 = 1.
-  d = decide_marked(m, "it was [mine] today");
+  d = decide_marked(m, "it was [mine] anew");
   CHECK(d.kind == Decision::standalone);
   CHECK(d.score == Approx(1.0));
   // Nothing known: a tie, which goes to determiner with margin 0.
@@ -401,13 +540,17 @@ TEST_CASE("possessive: corrupt model files are errors", "[possessive]") {
       {replace("words 1\nlamp\tnn\n", ""), 5, "must come before"},
       {replace("n1:lamp\t10\t-10\t0", "n1:lamp\t10\tx\t0"), 8, "not an integer"},
       {replace("n1:lamp\t10\t-10\t0", "n1:lamp\t10\t-10"), 8, "feature line"},
-      {replace("n1:lamp\t10\t-10\t0", "n1:today\t10\t-10\t0"), 9, "listed twice"},
+      {replace("n1:lamp\t10\t-10\t0", "n1:anew\t10\t-10\t0"), 9, "listed twice"},
       {replace("features 3", "features 4"), 11, "'end' after 3 of 4"},
       {replace("features 3", "features 2"), 10, "expected 'end'"},
       {replace("end\n", ""), 10, "expected 'end'"},
       {good + "n1:x\t1\t1\t1\n", 12, "text after 'end'"},
       {replace("scale 2\n", "size 2\n"), 3, "unknown header line 'size'"},
-      {good.substr(0, good.find("n1:today")), 8, "file ends after 1 of 3 features"},
+      {replace("features 3", "possessed x\nfeatures 3"), 7, "possessed must be"},
+      {replace("features 3", "possessed 1\nlamp 2\nfeatures 3"), 8, "a possessed line"},
+      {replace("features 3", "possessed 2\nlamp\t2\nlamp\t3\nfeatures 3"), 9, "listed twice"},
+      {replace("features 3", "possessed 0\npossessed 0\nfeatures 3"), 8, "a second 'possessed'"},
+      {good.substr(0, good.find("n1:anew")), 8, "file ends after 1 of 3 features"},
   };
   for (const Case& c : cases) {
     INFO(c.text);
@@ -440,11 +583,19 @@ TEST_CASE("possessive: hand-written sentences", "[possessive]") {
       "the pilot read [her] logbook aloud .",
       "nobody on the island doubted [her] courage .",
       "at dawn she climbed to the top of [her] tower .",
+      "the pilot shook [her] hand on the pier .",
+      "she wiped the salt from [her] deeply lined face .",
   };
   const std::vector<std::string> object_her = {
-      "the storm kept [her] awake all night .",  "the pilot handed [her] the rope .",
-      "we saw [her] on the pier yesterday .",    "the gulls followed [her] .",
+      "the storm kept [her] awake all night .",
+      "the pilot handed [her] the rope .",
+      "we saw [her] on the pier yesterday .",
+      "the gulls followed [her] .",
       "he told [her] that the ferry was late .",
+      "the pilot watched [her] anxiously from the deck .",
+      "he did not like the idea of [her] going out alone .",
+      "the pilot will visit [her] tomorrow morning .",
+      "the pilot picked [her] up at the pier .",
   };
   const std::vector<std::string> determiner_his = {
       "the pilot checked [his] compass twice .",
@@ -455,10 +606,13 @@ TEST_CASE("possessive: hand-written sentences", "[possessive]") {
       "the red coat on the hook is [his] .",
       "the keeper said the boat was [his] , not hers .",
       "her boat was faster than [his] .",
+      "a cousin of [his] would bring the mail .",
   };
-  // Known misses, kept out of the checks: a standalone "his" before a word ("a cousin of his
-  // runs the ferry", "the choice was his alone") comes out as a determiner; the model has too
-  // few standalone examples to learn it (see possessive.h).
+  // Known misses, kept out of the checks: a standalone "his" before an ordinary word ("a cousin
+  // of his runs the ferry", "the choice was his alone") comes out as a determiner, as the model
+  // has few standalone examples (a finite verb after it is a rule: "a cousin of his would");
+  // "her" before an "-ing" word the lexicon lacks ("the idea of her rowing out alone") comes out
+  // as a determiner, where Brown would tag the object (see possessive.h).
   for (const auto& s : determiner_her) {
     INFO(s);
     CHECK(decide_marked(m, s).kind == Decision::determiner);
@@ -533,18 +687,20 @@ TEST_CASE("possessive: accuracy on the held-out Brown Corpus files", "[possessiv
   const auto& files = brown();
   auto model = shipped_model();
   Accuracy her, his;
-  evaluate_even(*model, files, her, his);
+  evaluate(*model, files, her, his);
   WARN("Brown even-numbered files (held out): her " << her.right << "/" << her.total << " = "
                                                     << her.value() << ", his " << his.right << "/"
                                                     << his.total << " = " << his.value());
-  // Majority baselines on the same files are about 0.63 (her) and 0.994 (his). Measured when
-  // the model was made: her 1289/1391 = 0.9267, his 3654/3672 = 0.9951. The task asked for a
-  // 0.93 floor for "her"; by a hand check of the 102 "her" misses, about 66 are Brown tag
-  // errors (27 in file cn08 alone, where nouns after "her" are tagged PPO), so the floor here
-  // is 0.92, which still catches any real regression of the model.
+  // Majority baselines on the same files are about 0.63 (her) and 0.994 (his). The floors are
+  // the task's: 0.93 for "her", 0.994 for "his" (aims: 0.95 and 0.997). Measured for the shipped
+  // model: her 1290/1391 = 0.9274, his 3655/3672 = 0.9954 -- "her" is below its floor, so this
+  // test fails; that is the model's true state, not a threshold to lower. The even files were
+  // evaluated twice while the model was made (the first time: her 1285, his 3658); all choices
+  // came from cross-validation inside the odd files (her 1551/1645, his 3315/3322). Brown's
+  // "her" tags are noisy (see possessive.h): most misses are PPO tags before possessed nouns.
   REQUIRE(her.total > 1000);
   REQUIRE(his.total > 3000);
-  REQUIRE(her.value() >= 0.92);
+  REQUIRE(her.value() >= 0.93);
   REQUIRE(his.value() >= 0.994);
 }
 
@@ -578,4 +734,40 @@ TEST_CASE("possessive: train the model from the odd Brown files", "[.train]") {
   REQUIRE(model.ok());
   WARN("wrote " << out << ": " << set.examples.size() << " training examples, "
                 << model.value()->feature_count() << " features, " << text.size() << " bytes");
+}
+
+// Development aid, not a check: 4-fold cross-validation inside the odd-numbered files (fold =
+// position of the file among the odd files, modulo 4), the only measurement used to choose the
+// model's features and rules. rules/tools/train-possessive.sh --cv runs it.
+TEST_CASE("possessive: cross-validation inside the odd Brown files", "[.cv]") {
+  const auto& files = brown();
+  std::map<std::string, int> fold_of;
+  int odd_index = 0;
+  for (const BrownFile& f : files) {
+    if (is_training_file(f)) fold_of[f.id] = odd_index++ % 4;
+  }
+  Accuracy her_all, his_all;
+  for (int fold = 0; fold < 4; ++fold) {
+    auto in_fold = [&](const BrownFile& f) {
+      auto it = fold_of.find(f.id);
+      return it != fold_of.end() && it->second == fold;
+    };
+    TrainingSet set = build_training_set(
+        files, [&](const BrownFile& f) { return is_training_file(f) && !in_fold(f); });
+    std::string text = evenhand::rewrite::train_possessive_model(set.examples, set.options);
+    auto model = PossessiveModel::parse(text, "cv.model");
+    REQUIRE(model.ok());
+    Accuracy her, his;
+    evaluate(*model.value(), files, her, his, in_fold);
+    WARN("fold " << fold << ": her " << her.right << "/" << her.total << ", his " << his.right
+                 << "/" << his.total);
+    her_all.right += her.right;
+    her_all.total += her.total;
+    his_all.right += his.right;
+    his_all.total += his.total;
+  }
+  WARN("cross-validation on the odd files: her "
+       << her_all.right << "/" << her_all.total << " = " << her_all.value() << ", his "
+       << his_all.right << "/" << his_all.total << " = " << his_all.value());
+  CHECK(her_all.total > 1000);
 }
