@@ -243,38 +243,7 @@ TEST_CASE("neutral nouns where English has them, '-' where it has none", "[pack]
 
 TEST_CASE("every mapping of the shipped pack is reversible", "[pack][shipped]") {
   auto p = shipped();
-  size_t checked = 0;
-  for (uint32_t s = 0; s < p->sets().size(); ++s) {
-    const WordSet& set = p->sets()[s];
-    for (uint16_t g = 0; g < set.forms.size(); ++g) {
-      for (uint16_t h = 0; h < set.forms.size(); ++h) {
-        if (g == h || set.forms[g].empty() || set.forms[h].empty()) continue;
-        INFO(set.where.str() << ": " << set.forms[g] << " -> " << set.forms[h]);
-        // B = the counterpart; its entries in group h must lead back to A through a set that
-        // the tag selects: either B has one set (this one) or each of its sets has its own tag.
-        std::vector<std::string> words;
-        for (const auto& t : form_tokens(set.forms[h])) words.push_back(fold_word(t));
-        const auto* list = p->lookup(words.front());
-        REQUIRE(list != nullptr);
-        std::vector<const LexEntry*> mine;
-        for (const auto& e : *list)
-          if (e.words == words && e.group == h && !e.is_name) mine.push_back(&e);
-        REQUIRE_FALSE(mine.empty());
-        std::set<Tag> tags;
-        for (const auto* e : mine) tags.insert(e->tag);
-        if (mine.size() > 1) {
-          CHECK(tags.size() == mine.size());
-          CHECK(tags.count(Tag::none) == 0);
-        }
-        const LexEntry* back = nullptr;
-        for (const auto* e : mine)
-          if (mine.size() == 1 || e->tag == set.tag) back = e;
-        REQUIRE(back != nullptr);
-        CHECK(fold_word(p->sets()[back->set].forms[g]) == fold_word(set.forms[g]));
-        ++checked;
-      }
-    }
-  }
+  size_t checked = check_mappings_go_back(*p);
   CHECK(checked >= 300);
   // Names: a bijection, so each name's counterpart names it back.
   for (const auto& pair : p->names()) {

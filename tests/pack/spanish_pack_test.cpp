@@ -74,10 +74,9 @@ bool ends_with(const std::string& s, const std::string& suffix) {
 
 // The words hunspell es_ES rejects among `words` (`hunspell -l` prints them one a line).
 std::set<std::string> hunspell_es_unknown(const std::set<std::string>& words) {
-  std::string tmp =
-      (std::filesystem::temp_directory_path() /
-       ("evenhand_es_pack_hunspell_words." + std::to_string(getpid()) + ".txt"))
-          .string();  // one file per process: ctest runs test cases in parallel
+  std::string tmp = (std::filesystem::temp_directory_path() /
+                     ("evenhand_es_pack_hunspell_words." + std::to_string(getpid()) + ".txt"))
+                        .string();  // one file per process: ctest runs test cases in parallel
   {
     std::ofstream out(tmp);
     for (const auto& w : words) out << w << '\n';
@@ -194,36 +193,7 @@ TEST_CASE("basic Spanish gender pairs map in both directions", "[pack][spanish]"
 
 TEST_CASE("every mapping of the es-gender pack goes back to its source", "[pack][spanish]") {
   auto p = spanish();
-  size_t checked = 0;
-  for (const WordSet& set : p->sets()) {
-    for (uint16_t g = 0; g < set.forms.size(); ++g) {
-      for (uint16_t h = 0; h < set.forms.size(); ++h) {
-        if (g == h || set.forms[g].empty() || set.forms[h].empty()) continue;
-        INFO(set.where.str() << ": " << set.forms[g] << " -> " << set.forms[h]);
-        // B = the counterpart; its entries in group h must lead back to A through the set the
-        // tag selects: either B has one set (this one) or each of its sets has its own tag.
-        auto words = folded_tokens(set.forms[h]);
-        const auto* list = p->lookup(words.front());
-        REQUIRE(list != nullptr);
-        std::vector<const LexEntry*> mine;
-        for (const auto& e : *list)
-          if (e.words == words && e.group == h && !e.is_name) mine.push_back(&e);
-        REQUIRE_FALSE(mine.empty());
-        std::set<Tag> tags;
-        for (const auto* e : mine) tags.insert(e->tag);
-        if (mine.size() > 1) {
-          CHECK(tags.size() == mine.size());
-          CHECK(tags.count(Tag::none) == 0);
-        }
-        const LexEntry* back = nullptr;
-        for (const auto* e : mine)
-          if (mine.size() == 1 || e->tag == set.tag) back = e;
-        REQUIRE(back != nullptr);
-        CHECK(fold_word(p->sets()[back->set].forms[g]) == fold_word(set.forms[g]));
-        ++checked;
-      }
-    }
-  }
+  size_t checked = check_mappings_go_back(*p);
   CHECK(checked >= 240);
 }
 
