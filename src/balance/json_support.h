@@ -55,3 +55,12 @@ Result<simdjson::dom::object> parse_root(simdjson::dom::parser& parser, std::str
                                          const std::string& file, std::string_view schema);
 
 }  // namespace evenhand::balance::detail
+
+// Inside a function returning Result<...> or Status: assigns the value of `expr` (a Result)
+// to `dst`, or returns its error. Shared by the tally and plan readers.
+#define EVENHAND_READ(dst, expr)                                        \
+  do {                                                                  \
+    auto evenhand_read_ = (expr);                                       \
+    if (!evenhand_read_.ok()) return std::move(evenhand_read_).error(); \
+    dst = std::move(evenhand_read_).value();                            \
+  } while (0)

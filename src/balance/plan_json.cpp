@@ -81,64 +81,58 @@ Result<Plan> plan_from_json(std::string_view json, const std::string& file) {
   if (!root.ok()) return std::move(root).error();
   simdjson::dom::object obj = *root;
   Plan p;
-#define EH_READ(dst, expr)                      \
-  do {                                          \
-    auto r_ = (expr);                           \
-    if (!r_.ok()) return std::move(r_).error(); \
-    dst = std::move(r_).value();                \
-  } while (0)
-  EH_READ(p.axis, detail::get_str(obj, "axis", file, ""));
-  EH_READ(p.groups, detail::get_str_array(obj, "groups", file, ""));
-  EH_READ(p.pack_sha256, detail::get_str(obj, "pack_sha256", file, ""));
+  EVENHAND_READ(p.axis, detail::get_str(obj, "axis", file, ""));
+  EVENHAND_READ(p.groups, detail::get_str_array(obj, "groups", file, ""));
+  EVENHAND_READ(p.pack_sha256, detail::get_str(obj, "pack_sha256", file, ""));
   const size_t n = p.groups.size();
 
   simdjson::dom::array target;
-  EH_READ(target, detail::get_arr(obj, "target", file, ""));
+  EVENHAND_READ(target, detail::get_arr(obj, "target", file, ""));
   for (simdjson::dom::element e : target) {
     std::string where = "target[" + std::to_string(p.target.size()) + "]";
     simdjson::dom::object to;
     if (e.get_object().get(to) != simdjson::SUCCESS) return bad_doc(file, where, "not an object");
     TargetWeight t;
-    EH_READ(t.group, detail::get_str(to, "group", file, where));
-    EH_READ(t.weight, detail::get_f64(to, "weight", file, where));
+    EVENHAND_READ(t.group, detail::get_str(to, "group", file, where));
+    EVENHAND_READ(t.weight, detail::get_f64(to, "weight", file, where));
     if (std::find(p.groups.begin(), p.groups.end(), t.group) == p.groups.end())
       return bad_doc(file, where + ".group", "'" + t.group + "' is not one of the groups");
     p.target.push_back(std::move(t));
   }
   std::string basis;
-  EH_READ(basis, detail::get_str(obj, "basis", file, ""));
+  EVENHAND_READ(basis, detail::get_str(obj, "basis", file, ""));
   auto b = parse_basis(basis);
   if (!b) return bad_doc(file, "basis", "must be 'mentions' or 'records'");
   p.basis = *b;
-  EH_READ(p.tolerance, detail::get_f64(obj, "tolerance", file, ""));
+  EVENHAND_READ(p.tolerance, detail::get_f64(obj, "tolerance", file, ""));
   simdjson::dom::object allowed;
-  EH_READ(allowed, detail::get_obj(obj, "allowed", file, ""));
-  EH_READ(p.allow_flip, detail::get_bool(allowed, "flip", file, "allowed"));
-  EH_READ(p.allow_add, detail::get_bool(allowed, "add", file, "allowed"));
-  EH_READ(p.allow_drop, detail::get_bool(allowed, "drop", file, "allowed"));
-  EH_READ(p.tally_records, detail::get_u64(obj, "tally_records", file, ""));
-  EH_READ(p.changed, detail::get_u64(obj, "changed", file, ""));
-  EH_READ(p.flip, detail::get_u64(obj, "flip", file, ""));
-  EH_READ(p.add, detail::get_u64(obj, "add", file, ""));
-  EH_READ(p.drop, detail::get_u64(obj, "drop", file, ""));
-  EH_READ(p.lower_bound, detail::get_u64(obj, "lower_bound", file, ""));
-  EH_READ(p.minimal, detail::get_bool(obj, "minimal", file, ""));
-  EH_READ(p.reached, detail::get_bool(obj, "reached", file, ""));
+  EVENHAND_READ(allowed, detail::get_obj(obj, "allowed", file, ""));
+  EVENHAND_READ(p.allow_flip, detail::get_bool(allowed, "flip", file, "allowed"));
+  EVENHAND_READ(p.allow_add, detail::get_bool(allowed, "add", file, "allowed"));
+  EVENHAND_READ(p.allow_drop, detail::get_bool(allowed, "drop", file, "allowed"));
+  EVENHAND_READ(p.tally_records, detail::get_u64(obj, "tally_records", file, ""));
+  EVENHAND_READ(p.changed, detail::get_u64(obj, "changed", file, ""));
+  EVENHAND_READ(p.flip, detail::get_u64(obj, "flip", file, ""));
+  EVENHAND_READ(p.add, detail::get_u64(obj, "add", file, ""));
+  EVENHAND_READ(p.drop, detail::get_u64(obj, "drop", file, ""));
+  EVENHAND_READ(p.lower_bound, detail::get_u64(obj, "lower_bound", file, ""));
+  EVENHAND_READ(p.minimal, detail::get_bool(obj, "minimal", file, ""));
+  EVENHAND_READ(p.reached, detail::get_bool(obj, "reached", file, ""));
 
   simdjson::dom::array outcome;
-  EH_READ(outcome, detail::get_arr(obj, "outcome", file, ""));
+  EVENHAND_READ(outcome, detail::get_arr(obj, "outcome", file, ""));
   for (simdjson::dom::element e : outcome) {
     std::string where = "outcome[" + std::to_string(p.outcome.size()) + "]";
     simdjson::dom::object oo;
     if (e.get_object().get(oo) != simdjson::SUCCESS) return bad_doc(file, where, "not an object");
     GroupOutcome o;
-    EH_READ(o.group, detail::get_str(oo, "group", file, where));
-    EH_READ(o.target_share, detail::get_f64(oo, "target_share", file, where));
-    EH_READ(o.before, detail::get_f64(oo, "before", file, where));
-    EH_READ(o.after, detail::get_f64(oo, "after", file, where));
-    EH_READ(o.share_before, detail::get_f64(oo, "share_before", file, where));
-    EH_READ(o.share_after, detail::get_f64(oo, "share_after", file, where));
-    EH_READ(o.sd, detail::get_f64(oo, "sd", file, where));
+    EVENHAND_READ(o.group, detail::get_str(oo, "group", file, where));
+    EVENHAND_READ(o.target_share, detail::get_f64(oo, "target_share", file, where));
+    EVENHAND_READ(o.before, detail::get_f64(oo, "before", file, where));
+    EVENHAND_READ(o.after, detail::get_f64(oo, "after", file, where));
+    EVENHAND_READ(o.share_before, detail::get_f64(oo, "share_before", file, where));
+    EVENHAND_READ(o.share_after, detail::get_f64(oo, "share_after", file, where));
+    EVENHAND_READ(o.sd, detail::get_f64(oo, "sd", file, where));
     if (p.outcome.size() >= p.target.size() || o.group != p.target[p.outcome.size()].group)
       return bad_doc(file, where, "does not match the target's groups");
     p.outcome.push_back(std::move(o));
@@ -147,7 +141,7 @@ Result<Plan> plan_from_json(std::string_view json, const std::string& file) {
     return bad_doc(file, "outcome", "does not match the target's groups");
 
   simdjson::dom::array bins;
-  EH_READ(bins, detail::get_arr(obj, "bins", file, ""));
+  EVENHAND_READ(bins, detail::get_arr(obj, "bins", file, ""));
   size_t index = 0;
   uint64_t flips = 0, adds = 0, drops = 0;
   for (simdjson::dom::element e : bins) {
@@ -155,12 +149,12 @@ Result<Plan> plan_from_json(std::string_view json, const std::string& file) {
     simdjson::dom::object bo;
     if (e.get_object().get(bo) != simdjson::SUCCESS) return bad_doc(file, where, "not an object");
     Signature sig;
-    EH_READ(sig, detail::read_signature(bo, n, file, where));
+    EVENHAND_READ(sig, detail::read_signature(bo, n, file, where));
     BinPlan bp;
-    EH_READ(bp.records, detail::get_u64(bo, "records", file, where));
-    EH_READ(bp.flip, detail::get_u64(bo, "flip", file, where));
-    EH_READ(bp.add, detail::get_u64(bo, "add", file, where));
-    EH_READ(bp.drop, detail::get_u64(bo, "drop", file, where));
+    EVENHAND_READ(bp.records, detail::get_u64(bo, "records", file, where));
+    EVENHAND_READ(bp.flip, detail::get_u64(bo, "flip", file, where));
+    EVENHAND_READ(bp.add, detail::get_u64(bo, "add", file, where));
+    EVENHAND_READ(bp.drop, detail::get_u64(bo, "drop", file, where));
     if (bp.flip > bp.records || bp.add > bp.records - bp.flip ||
         bp.drop > bp.records - bp.flip - bp.add)
       return bad_doc(file, where, "changes more records than the signature has");
@@ -174,7 +168,6 @@ Result<Plan> plan_from_json(std::string_view json, const std::string& file) {
     if (!p.bins.emplace(std::move(sig), bp).second)
       return bad_doc(file, where, "repeats an earlier signature");
   }
-#undef EH_READ
   if (flips != p.flip || adds != p.add || drops != p.drop)
     return bad_doc(file, "bins", "do not add up to the plan's flip, add and drop counts");
   if (p.changed != p.flip + p.add + p.drop)

@@ -244,20 +244,15 @@ Result<Tally> tally_from_json(std::string_view json, const std::string& file) {
   if (!root.ok()) return std::move(root).error();
   simdjson::dom::object obj = *root;
   Tally t;
-#define EH_READ(dst, expr)                      \
-  do {                                          \
-    auto r_ = (expr);                           \
-    if (!r_.ok()) return std::move(r_).error(); \
-    dst = std::move(r_).value();                \
-  } while (0)
-  EH_READ(t.axis, detail::get_str(obj, "axis", file, ""));
-  EH_READ(t.groups, detail::get_str_array(obj, "groups", file, ""));
-  EH_READ(t.pack_sha256, detail::get_str(obj, "pack_sha256", file, ""));
-  EH_READ(t.records, detail::get_u64(obj, "records", file, ""));
-  EH_READ(t.records_changeable, detail::get_u64(obj, "records_changeable", file, ""));
-  EH_READ(t.records_guarded, detail::get_u64(obj, "records_guarded", file, ""));
-  EH_READ(t.records_without_mentions, detail::get_u64(obj, "records_without_mentions", file, ""));
-  EH_READ(t.records_tied, detail::get_u64(obj, "records_tied", file, ""));
+  EVENHAND_READ(t.axis, detail::get_str(obj, "axis", file, ""));
+  EVENHAND_READ(t.groups, detail::get_str_array(obj, "groups", file, ""));
+  EVENHAND_READ(t.pack_sha256, detail::get_str(obj, "pack_sha256", file, ""));
+  EVENHAND_READ(t.records, detail::get_u64(obj, "records", file, ""));
+  EVENHAND_READ(t.records_changeable, detail::get_u64(obj, "records_changeable", file, ""));
+  EVENHAND_READ(t.records_guarded, detail::get_u64(obj, "records_guarded", file, ""));
+  EVENHAND_READ(t.records_without_mentions,
+                detail::get_u64(obj, "records_without_mentions", file, ""));
+  EVENHAND_READ(t.records_tied, detail::get_u64(obj, "records_tied", file, ""));
   const size_t n = t.groups.size();
   for (size_t i = 0; i < n; ++i)
     for (size_t j = i + 1; j < n; ++j)
@@ -265,35 +260,36 @@ Result<Tally> tally_from_json(std::string_view json, const std::string& file) {
         return bad_doc(file, "groups", "names '" + t.groups[i] + "' twice");
 
   simdjson::dom::array by_group;
-  EH_READ(by_group, detail::get_arr(obj, "by_group", file, ""));
+  EVENHAND_READ(by_group, detail::get_arr(obj, "by_group", file, ""));
   for (simdjson::dom::element e : by_group) {
     std::string where = "by_group[" + std::to_string(t.by_group.size()) + "]";
     simdjson::dom::object go;
     if (e.get_object().get(go) != simdjson::SUCCESS) return bad_doc(file, where, "not an object");
     std::string name;
-    EH_READ(name, detail::get_str(go, "group", file, where));
+    EVENHAND_READ(name, detail::get_str(go, "group", file, where));
     if (t.by_group.size() >= n || name != t.groups[t.by_group.size()])
       return bad_doc(file, where, "does not match the groups list");
     GroupTotals gt;
-    EH_READ(gt.mentions, detail::get_u64(go, "mentions", file, where));
-    EH_READ(gt.records, detail::get_u64(go, "records", file, where));
+    EVENHAND_READ(gt.mentions, detail::get_u64(go, "mentions", file, where));
+    EVENHAND_READ(gt.records, detail::get_u64(go, "records", file, where));
     t.by_group.push_back(gt);
   }
   if (t.by_group.size() != n) return bad_doc(file, "by_group", "does not match the groups list");
 
   simdjson::dom::array sigs;
-  EH_READ(sigs, detail::get_arr(obj, "signatures", file, ""));
+  EVENHAND_READ(sigs, detail::get_arr(obj, "signatures", file, ""));
   size_t index = 0;
   for (simdjson::dom::element e : sigs) {
     std::string where = "signatures[" + std::to_string(index++) + "]";
     simdjson::dom::object so;
     if (e.get_object().get(so) != simdjson::SUCCESS) return bad_doc(file, where, "not an object");
     Signature sig;
-    EH_READ(sig, detail::read_signature(so, n, file, where));
+    EVENHAND_READ(sig, detail::read_signature(so, n, file, where));
     SignatureTotals tot;
-    EH_READ(tot.records, detail::get_u64(so, "records", file, where));
-    EH_READ(tot.before, detail::get_u64_array(so, "sum_before", n, file, where));
-    EH_READ(tot.after, detail::get_u64_array(so, "sum_after", sig.changeable ? n : 0, file, where));
+    EVENHAND_READ(tot.records, detail::get_u64(so, "records", file, where));
+    EVENHAND_READ(tot.before, detail::get_u64_array(so, "sum_before", n, file, where));
+    EVENHAND_READ(tot.after,
+                  detail::get_u64_array(so, "sum_after", sig.changeable ? n : 0, file, where));
     if (tot.records == 0) return bad_doc(file, where + ".records", "must be at least 1");
     if (!lead_fits(sig.before, sig.lead_before))
       return bad_doc(file, where + ".lead_before", "does not fit the counts");
@@ -308,7 +304,6 @@ Result<Tally> tally_from_json(std::string_view json, const std::string& file) {
     if (!t.signatures.emplace(std::move(sig), std::move(tot)).second)
       return bad_doc(file, where, "repeats an earlier signature");
   }
-#undef EH_READ
 
   // The counters are sums over the signatures; check that they add up.
   uint64_t recs = 0, changeable = 0, none = 0, tied = 0;
