@@ -152,20 +152,62 @@ struct Tokenizer::Impl {
   }
 
   // UAX #29 restricted to ASCII (see Cls), segmenting text[b, e) as if it stood alone.
+  // Prose is letters, single spaces and punctuation, so each token is classified by its
+  // first byte and the common shapes are scanned directly: a run of letters (with WB6/WB7
+  // joining "mother's", "e.g"), a run of U+0020 (WB3d), CR LF (WB3), and single bytes that
+  // no rule joins to the next one. Tokens that touch digits or '_' (WB8-WB13b) go through the
+  // pairwise rules in general_end(). The random-string tests check this against ICU.
   void ascii_append(std::string_view text, size_t b, size_t e, std::vector<Token>& out) const {
     const auto* p = reinterpret_cast<const unsigned char*>(text.data());
+    size_t i = b;
+    while (i < e) {
+      size_t start = i;
+      uint8_t c0 = cls[p[i]];
+      TokenKind kind = TokenKind::punct;
+      if (c0 == kLetter) {
+        ++i;
+        for (;;) {
+          while (i < e && cls[p[i]] == kLetter) ++i;
+          if (i + 1 < e && (cls[p[i]] == kMidLetter || cls[p[i]] == kMidNumLet) &&
+              cls[p[i + 1]] == kLetter) {
+            i += 2;  // WB6/WB7
+            continue;
+          }
+          break;
+        }
+        if (i < e && (cls[p[i]] == kDigit || cls[p[i]] == kExtNumLet)) {
+          i = general_end(p, b, e, start);
+          kind = ascii_kind(p, start, i);
+        } else {
+          kind = TokenKind::word;
+        }
+      } else if (c0 == kWSegSpace) {
+        ++i;
+        while (i < e && p[i] == ' ') ++i;
+        kind = TokenKind::space;
+      } else if (c0 == kDigit || c0 == kExtNumLet) {
+        i = general_end(p, b, e, start);
+        kind = ascii_kind(p, start, i);
+      } else {
+        // CR, LF, vertical space, MidLetter/MidNum/MidNumLet and Other: nothing joins them to
+        // what follows (a Mid character between two letters or digits was taken above),
+        // except CR LF.
+        ++i;
+        if (c0 == kCR && i < e && p[i] == '\n') ++i;
+        kind = ascii_space(p[start]) ? TokenKind::space : TokenKind::punct;
+      }
+      out.push_back(Token{uint32_t(start), uint32_t(i), kind});
+    }
+  }
+
+  // End of the token that starts at `start`, by the pairwise rules (breaks_at), looking at
+  // no byte outside [b, e).
+  size_t general_end(const unsigned char* p, size_t b, size_t e, size_t start) const {
     // Class of byte i, or kOther outside [b, e) (i - 2 may wrap around: still outside).
     auto c = [&](size_t i) -> uint8_t { return i >= b && i < e ? cls[p[i]] : uint8_t(kOther); };
-    size_t start = b;
-    for (size_t i = b + 1; i <= e; ++i) {
-      // Fast path: inside a run of letters (or of spaces) no rule breaks (WB5, WB3d).
-      while (i < e && cls[p[i]] == cls[p[i - 1]] &&
-             (cls[p[i]] == kLetter || cls[p[i]] == kWSegSpace))
-        ++i;
-      if (i < e && !breaks_at(c(i - 2), c(i - 1), c(i), c(i + 1))) continue;
-      out.push_back(Token{uint32_t(start), uint32_t(i), ascii_kind(p, start, i)});
-      start = i;
-    }
+    size_t i = start + 1;
+    while (i < e && !breaks_at(c(i - 2), c(i - 1), c(i), c(i + 1))) ++i;
+    return i;
   }
 
   // Whether UAX #29 puts a boundary between classes a and c, with x before a and d after c
