@@ -14,6 +14,7 @@
 #include <cstring>
 #include <unordered_map>
 
+#include "base/word_hash.h"
 #include "pack/pack.h"
 #include "rewrite/article.h"
 #include "rewrite/engine.h"
@@ -37,25 +38,7 @@ const char* const kClitics[] = {"'s", "'d", "'ll", "'re", "'ve", "'m"};
 // not listed.
 const char* const kTitles[] = {"mr", "mrs", "ms", "miss", "mx", "dr", "prof"};
 
-// A quick hash for short words (multiply-xorshift over 8-byte blocks); the standard one
-// dominated profiles, since every token is looked up.
-struct WordHash {
-  using is_transparent = void;
-  size_t operator()(std::string_view s) const {
-    uint64_t h = 0x9E3779B97F4A7C15ULL ^ s.size();
-    size_t i = 0;
-    for (; i + 8 <= s.size(); i += 8) {
-      uint64_t v;
-      std::memcpy(&v, s.data() + i, 8);
-      h = (h ^ v) * 0xff51afd7ed558ccdULL;
-      h ^= h >> 32;
-    }
-    uint64_t v = 0;
-    std::memcpy(&v, s.data() + i, s.size() - i);
-    h = (h ^ v) * 0xc4ceb9fe1a85ec53ULL;
-    return static_cast<size_t>(h ^ (h >> 29));
-  }
-};
+using evenhand::WordHash;
 
 // Folded phrases (guards, protected expressions) indexed by their first token.
 struct PhraseIndex {

@@ -85,6 +85,7 @@
 #include <vector>
 
 #include "base/status.h"
+#include "base/word_hash.h"
 
 namespace evenhand::rewrite {
 
@@ -134,10 +135,7 @@ class PossessiveModel {
   size_t feature_count() const { return weights_.size(); }
 
  private:
-  struct Hash {
-    using is_transparent = void;
-    size_t operator()(std::string_view s) const { return std::hash<std::string_view>{}(s); }
-  };
+  using Hash = WordHash;
   PossessiveModel() = default;
   // The lexicon's class of a folded word, or "?" when it has none.
   std::string_view word_class_of(std::string_view folded) const;
