@@ -10,6 +10,7 @@
 //   decision is counted as ambiguous.
 // - Mentions inside protected spans are neither counted nor edited.
 #include <algorithm>
+#include <array>
 #include <bitset>
 #include <cstring>
 #include <unordered_map>
@@ -204,41 +205,53 @@ class LexiconEngine final : public Engine {
   WordIndex words_;
 };
 
-bool is_ascii(std::string_view s) {
-  for (unsigned char c : s)
-    if (c >= 0x80) return false;
-  return true;
-}
+// ASCII lower-casing table (identity for every other byte).
+constexpr std::array<char, 256> kAsciiLower = [] {
+  std::array<char, 256> t{};
+  for (int c = 0; c < 256; ++c) t[c] = static_cast<char>(c >= 'A' && c <= 'Z' ? c + 32 : c);
+  return t;
+}();
 
 void LexiconWorker::prepare_field(std::string_view field) {
   tokenizer_.tokenize(field, tokens_);
   items_.clear();
-  fold_.clear();
   words_.clear();
+  items_.reserve(tokens_.size());
+  // Folding ASCII keeps the length, so the folded text fits in the field's size unless a
+  // non-ASCII fold grows (U+00DF -> "ss"); the buffer then grows.
+  fold_.resize(field.size());
+  size_t fo = 0;
+  const auto* src = reinterpret_cast<const unsigned char*>(field.data());
   for (const auto& t : tokens_) {
     if (t.kind == text::TokenKind::space) continue;
     Item it;
     it.begin = t.begin;
     it.end = t.end;
     it.kind = t.kind;
-    it.fold_off = static_cast<uint32_t>(fold_.size());
-    std::string_view s = field.substr(t.begin, t.end - t.begin);
-    if (is_ascii(s)) {
-      size_t at = fold_.size();
-      fold_.append(s);
-      for (size_t i = at; i < fold_.size(); ++i) {
-        char c = fold_[i];
-        if (c >= 'A' && c <= 'Z') fold_[i] = static_cast<char>(c + 32);
-      }
-    } else {
-      fold_ += pack::fold_word(s);
+    it.fold_off = static_cast<uint32_t>(fo);
+    size_t n = t.end - t.begin;
+    if (fo + n > fold_.size()) fold_.resize(std::max(2 * fold_.size(), fo + n));
+    char* d = fold_.data() + fo;
+    unsigned char high = 0;
+    for (size_t i = 0; i < n; ++i) {
+      unsigned char c = src[t.begin + i];
+      high |= c;
+      d[i] = kAsciiLower[c];
     }
-    it.fold_len = static_cast<uint32_t>(fold_.size() - it.fold_off);
+    if (high & 0x80) {
+      std::string f = pack::fold_word(field.substr(t.begin, n));
+      n = f.size();
+      if (fo + n > fold_.size()) fold_.resize(std::max(2 * fold_.size(), fo + n));
+      std::memcpy(fold_.data() + fo, f.data(), n);
+    }
+    it.fold_len = static_cast<uint32_t>(n);
+    fo += n;
     if (t.kind == text::TokenKind::word) {
       it.slots = e_.words_.find(std::string_view(fold_.data() + it.fold_off, it.fold_len));
     }
     items_.push_back(it);
   }
+  fold_.resize(fo);
   spans_.clear();
   if (e_.protect_) e_.protect_->find(field, spans_);
   // The pack's protected expressions, matched on folded tokens.
@@ -246,7 +259,7 @@ void LexiconWorker::prepare_field(std::string_view field) {
   for (size_t k = 0; k < items_.size(); ++k) {
     const PhraseIndex::Phrase* hit;
     size_t len;
-    if (phrase_at(false, k, &hit, &len)) {
+    if (items_[k].slots && items_[k].slots->prot && phrase_at(false, k, &hit, &len)) {
       spans_.push_back({items_[k].begin, items_[k + len - 1].end, text::pack_phrase});
       added = true;
       k += len - 1;
@@ -357,9 +370,16 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
     const auto* entries = items_[k].slots ? items_[k].slots->lex : nullptr;
     if (entries == nullptr) {
       // Try the word without a trailing clitic ("mother's" -> "mother").
+      // Clitics are two or three bytes folded ('s 'd 'm, 'll 're 've).
       std::string_view f = folded(k);
-      size_t apos = f.rfind('\'');
-      if (apos == std::string_view::npos || apos == 0) continue;
+      size_t n = f.size(), apos;
+      if (n >= 3 && f[n - 2] == '\'') {
+        apos = n - 2;
+      } else if (n >= 4 && f[n - 3] == '\'') {
+        apos = n - 3;
+      } else {
+        continue;
+      }
       entries = pk.lookup(f.substr(0, apos));
       if (entries == nullptr) continue;
     }
