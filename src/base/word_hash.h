@@ -23,8 +23,10 @@ struct WordHash {
       h = (h ^ v) * 0xff51afd7ed558ccdULL;
       h ^= h >> 32;
     }
+    // The tail byte by byte: a memcpy of variable length is a library call here.
     uint64_t v = 0;
-    std::memcpy(&v, s.data() + i, s.size() - i);
+    for (unsigned shift = 0; i < s.size(); ++i, shift += 8)
+      v |= static_cast<uint64_t>(static_cast<unsigned char>(s[i])) << shift;
     h = (h ^ v) * 0xc4ceb9fe1a85ec53ULL;
     return static_cast<size_t>(h ^ (h >> 29));
   }

@@ -556,8 +556,8 @@ bool parse_int(std::string_view s, int64_t& out) {
 }  // namespace
 
 std::string_view PossessiveModel::word_class_of(std::string_view folded) const {
-  auto it = word_classes_.find(folded);
-  return it == word_classes_.end() ? std::string_view("?") : std::string_view(it->second);
+  const std::string* cls = word_classes_.find(folded);
+  return cls == nullptr ? std::string_view("?") : std::string_view(*cls);
 }
 
 const char* decision_kind_name(Decision::Kind kind) {
@@ -638,8 +638,7 @@ Result<std::shared_ptr<const PossessiveModel>> PossessiveModel::parse(std::strin
                              is_words ? "a word line is: word, a tab, its class"
                                       : "a possessed line is: word, a tab, its share label");
         }
-        if (!map.emplace(std::string(line.substr(0, tab)), std::string(line.substr(tab + 1)))
-                 .second) {
+        if (!map.emplace(line.substr(0, tab), std::string(line.substr(tab + 1)))) {
           return model_error(label, line_no,
                              "word '" + std::string(line.substr(0, tab)) + "' is listed twice");
         }
@@ -689,7 +688,7 @@ Result<std::shared_ptr<const PossessiveModel>> PossessiveModel::parse(std::strin
                            "weight '" + std::string(fields[1 + c]) + "' is not an integer");
       }
     }
-    if (!model->weights_.emplace(std::string(fields[0]), w).second) {
+    if (!model->weights_.emplace(fields[0], w)) {
       return model_error(label, line_no,
                          "feature '" + std::string(fields[0]) + "' is listed twice");
     }
@@ -735,13 +734,13 @@ Decision PossessiveModel::decide(std::span<const std::string_view> words, size_t
   std::array<int64_t, 3> scores{};
   auto word_class = [this](size_t, std::string_view w) { return word_class_of(w); };
   auto possessed = [this](size_t, std::string_view w) {
-    auto it = possessed_.find(w);
-    return it == possessed_.end() ? std::string_view("?") : std::string_view(it->second);
+    const std::string* share = possessed_.find(w);
+    return share == nullptr ? std::string_view("?") : std::string_view(*share);
   };
   extract_features(words, i, target, word_class, possessed, [&](std::string_view f) {
-    auto it = weights_.find(f);
-    if (it == weights_.end()) return;
-    for (int k = 0; k < kClassCount; ++k) scores[k] += it->second[k];
+    const std::array<int64_t, 3>* w = weights_.find(f);
+    if (w == nullptr) return;
+    for (int k = 0; k < kClassCount; ++k) scores[k] += (*w)[k];
   });
   return choose(scores, allowed_classes(target), scale_);
 }

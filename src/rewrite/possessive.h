@@ -84,6 +84,7 @@
 #include <unordered_map>
 #include <vector>
 
+#include "base/flat_map.h"
 #include "base/status.h"
 #include "base/word_hash.h"
 
@@ -139,10 +140,12 @@ class PossessiveModel {
   PossessiveModel() = default;
   // The lexicon's class of a folded word, or "?" when it has none.
   std::string_view word_class_of(std::string_view folded) const;
-  std::unordered_map<std::string, std::array<int64_t, 3>, Hash, std::equal_to<>> weights_;
-  std::unordered_map<std::string, std::string, Hash, std::equal_to<>> word_classes_;
+  // Flat tables: a decision probes ~30 features, and node-based maps made each probe a chain
+  // of cache misses.
+  FlatStringMap<std::array<int64_t, 3>> weights_;
+  FlatStringMap<std::string> word_classes_;
   // Folded word -> label of how often it follows a possessive determiner (optional section).
-  std::unordered_map<std::string, std::string, Hash, std::equal_to<>> possessed_;
+  FlatStringMap<std::string> possessed_;
   int64_t scale_ = 1;  // the averaging denominator: stored weights are scale * mean weight
 };
 

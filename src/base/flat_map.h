@@ -1,0 +1,86 @@
+// A read-mostly hash map from strings to values with open addressing: the keys live in one
+// arena and each slot keeps its key's full hash, so a probe for an absent key usually reads
+// a single slot. Built once, then shared read-only by threads (find() is const and does not
+// allocate); for the large lexicons looked up per token.
+#pragma once
+
+#include <cstddef>
+#include <cstdint>
+#include <string>
+#include <string_view>
+#include <utility>
+#include <vector>
+
+#include "base/word_hash.h"
+
+namespace evenhand {
+
+template <class V>
+class FlatStringMap {
+ public:
+  // Room for n keys without growing.
+  void reserve(size_t n) {
+    size_t cap = 16;
+    while (cap < 2 * n) cap <<= 1;
+    if (cap > slots_.size()) rehash(cap);
+  }
+
+  // Inserts key -> value; false (and no change) if the key is already there.
+  bool emplace(std::string_view key, V value) {
+    if (2 * (size_ + 1) > slots_.size()) rehash(slots_.empty() ? 16 : 2 * slots_.size());
+    uint64_t h = WordHash{}(key);
+    size_t i = h & mask_;
+    for (; slots_[i].len1 != 0; i = (i + 1) & mask_) {
+      if (slots_[i].hash == h && key_of(slots_[i]) == key) return false;
+    }
+    Slot& s = slots_[i];
+    s.hash = h;
+    s.off = static_cast<uint32_t>(arena_.size());
+    s.len1 = static_cast<uint32_t>(key.size() + 1);
+    s.value = std::move(value);
+    arena_.append(key);
+    ++size_;
+    return true;
+  }
+
+  const V* find(std::string_view key) const {
+    if (size_ == 0) return nullptr;
+    uint64_t h = WordHash{}(key);
+    for (size_t i = h & mask_; slots_[i].len1 != 0; i = (i + 1) & mask_) {
+      const Slot& s = slots_[i];
+      if (s.hash == h && key_of(s) == key) return &s.value;
+    }
+    return nullptr;
+  }
+
+  size_t size() const { return size_; }
+
+ private:
+  struct Slot {
+    uint64_t hash = 0;
+    uint32_t off = 0;
+    uint32_t len1 = 0;  // key length + 1; 0 marks an empty slot
+    V value{};
+  };
+  std::string_view key_of(const Slot& s) const {
+    return std::string_view(arena_.data() + s.off, s.len1 - 1);
+  }
+  void rehash(size_t cap) {
+    std::vector<Slot> old = std::move(slots_);
+    slots_.assign(cap, Slot{});
+    mask_ = cap - 1;
+    for (Slot& s : old) {
+      if (s.len1 == 0) continue;
+      size_t i = s.hash & mask_;
+      while (slots_[i].len1 != 0) i = (i + 1) & mask_;
+      slots_[i] = std::move(s);
+    }
+  }
+
+  std::vector<Slot> slots_;
+  std::string arena_;
+  size_t size_ = 0;
+  size_t mask_ = 0;
+};
+
+}  // namespace evenhand
