@@ -514,6 +514,16 @@ static std::string recase(std::string_view original, std::string_view replacemen
   return out;
 }
 
+// Third-person singular auxiliaries that stand before their subject in questions and tags
+// (folded; the typographic apostrophe folds to '), common practice of English grammar.
+bool is_inverting_auxiliary(std::string_view w) {
+  static constexpr std::string_view kAux[] = {"is",    "was",    "has",    "does",
+                                              "isn't", "wasn't", "hasn't", "doesn't"};
+  for (std::string_view a : kAux)
+    if (w == a) return true;
+  return false;
+}
+
 size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size_t k, size_t len,
                                      uint32_t clitic, Edit& pronoun, RecordResult& out) {
   const VerbTable& verbs = *e_.verbs_;
@@ -564,8 +574,12 @@ size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size
     out.edits.push_back(std::move(pronoun));
     return last;
   }
-  // "Is she", "Does he", "..., isn't she?": the verb stands before the pronoun.
-  if (k > 0 && word_at(k - 1) && verbs.is_third_singular(folded(k - 1))) {
+  // "Is she", "Does he", "..., isn't she?": an auxiliary stands before the pronoun. Only
+  // auxiliaries invert in English; a lexical verb before a subject belongs to another clause
+  // ("she says he knows"). An earlier edit may already have taken that verb.
+  bool verb_free = out.edits.empty() || out.edits.back().field != field ||
+                   out.edits.back().end <= items_[k - (k > 0 ? 1 : 0)].begin;
+  if (k > 0 && word_at(k - 1) && verb_free && is_inverting_auxiliary(folded(k - 1))) {
     auto a = verbs.pluralize(folded(k - 1));
     if (a.kind == VerbTable::Answer::plural) {
       out.edits.push_back(agree(k - 1, a.form, "verb before its subject"));
