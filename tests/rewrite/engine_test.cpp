@@ -5,46 +5,17 @@
 
 #include "pack/pack.h"
 #include "rewrite/engine.h"
+#include "rewrite/rewriter.h"
 
 using namespace evenhand;
 
 namespace {
 
+using testing::Rewriter;
+
 std::shared_ptr<const pack::CompiledPack> en_pack() {
-  std::vector<pack::Diagnostic> diags;
-  auto p = pack::load_pack("en-gender", diags);
-  REQUIRE(p.ok());
-  return *p;
+  return testing::shipped_pack("en-gender");
 }
-
-std::string apply_edits(std::string_view text, const rewrite::RecordResult& r) {
-  std::string out;
-  size_t pos = 0;
-  for (const auto& e : r.edits) {
-    out.append(text.substr(pos, e.begin - pos));
-    out.append(e.replacement);
-    pos = e.end;
-  }
-  out.append(text.substr(pos));
-  return out;
-}
-
-struct Rewriter {
-  std::unique_ptr<rewrite::Engine> engine;
-  std::unique_ptr<rewrite::Worker> worker;
-  rewrite::RecordResult result;
-  explicit Rewriter(std::shared_ptr<const pack::CompiledPack> p, rewrite::EngineOptions o = {}) {
-    auto e = rewrite::make_engine(std::move(p), o);
-    REQUIRE(e.ok());
-    engine = std::move(*e);
-    worker = engine->make_worker();
-  }
-  std::string operator()(std::string_view text) {
-    std::string_view f[] = {text};
-    worker->rewrite(f, result);
-    return apply_edits(text, result);
-  }
-};
 
 }  // namespace
 
