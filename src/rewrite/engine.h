@@ -49,7 +49,8 @@ struct RecordResult {
   uint32_t ambiguous = 0;              // context decisions with a low margin
   std::vector<uint32_t> entry_hits;    // sets/names that fired, one per non-agreement edit
   // Agreement that could not be settled: a short code ("unsettled_verb",
-  // "unsettled_contraction") and what was seen.
+  // "unsettled_contraction"; "overlapping_edits" if two rules ever claimed the same bytes and
+  // the later edit was left out) and what was seen.
   struct Flag {
     std::string code;
     std::string detail;
