@@ -273,6 +273,13 @@ VerbTable::Answer VerbTable::pluralize(std::string_view token) const {
     return result(Answer::unknown, "",
                   "'" + std::string(w) + "' is a base form, not third-person singular present");
   }
+  // A word the table does not know (a rare or invented verb, a name, a typo). Every English
+  // third-person singular present form outside the modals ends in -s (common practice of
+  // English grammar), so one that does not end in s needs no agreement whatever it is.
+  if (!w.empty() && w.back() != 's') {
+    return result(Answer::unchanged, token,
+                  "'" + std::string(w) + "' is not in the table and has no -s ending");
+  }
   return result(Answer::unknown, "", "'" + std::string(w) + "' is not a verb form the table knows");
 }
 

@@ -65,7 +65,8 @@ class VerbTable {
   //   unchanged: modals and their negatives (can, won't), past forms (went, walked, put),
   //     participles (going, been), the subjunctive "were" and the other past negatives;
   //   unknown: a base form that is not 3sg ("she lead"), a 3sg form with two lemmas (axes:
-  //     ax, axe) or that is also a lemma (summons), and any token the table does not know.
+  //     ax, axe) or that is also a lemma (summons), and any token the table does not know
+  //     that ends in s; one it does not know that ends otherwise is unchanged.
   Answer pluralize(std::string_view token) const;
 
   // Decides what "'s" in "she's"/"he's" stands for from the case-folded tokens that follow it
