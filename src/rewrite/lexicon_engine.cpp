@@ -526,6 +526,19 @@ bool is_inverting_auxiliary(std::string_view w) {
   return false;
 }
 
+// Auxiliaries without number that stand before their subject ("Can she ride?", "Did he
+// call?"): the verb after the subject is then a base form and needs nothing (common practice
+// of English grammar).
+bool is_numberless_auxiliary(std::string_view w) {
+  static constexpr std::string_view kAux[] = {
+      "can",    "could",     "will",     "would",   "shall",    "should", "may",
+      "might",  "must",      "did",      "can't",   "couldn't", "won't",  "wouldn't",
+      "shan't", "shouldn't", "mightn't", "mustn't", "didn't",   "cannot"};
+  for (std::string_view a : kAux)
+    if (w == a) return true;
+  return false;
+}
+
 size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size_t k, size_t len,
                                      uint32_t clitic, Edit& pronoun, RecordResult& out) {
   const VerbTable& verbs = *e_.verbs_;
@@ -588,6 +601,10 @@ size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size
       out.edits.push_back(std::move(pronoun));
       return last;
     }
+  }
+  if (k > 0 && word_at(k - 1) && is_numberless_auxiliary(folded(k - 1))) {
+    out.edits.push_back(std::move(pronoun));  // "Can she ride?": nothing to agree
+    return last;
   }
   out.edits.push_back(std::move(pronoun));
   // The verb after the subject, past adverbs ("she often goes").

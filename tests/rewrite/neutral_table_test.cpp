@@ -68,6 +68,8 @@ const std::vector<Row> kRows = {
     {"Was he at the meeting?", "Were they at the meeting?", "inversion was"},
     {"Is he the owner?", "Are they the owner?", "inversion is"},
     {"Does she? Yes, she does.", "Do they? Yes, they do.", "inversion and short answer"},
+    {"Can she lift the tray?", "Can they lift the tray?", "modal before the subject"},
+    {"Did he book a table?", "Did they book a table?", "did before the subject"},
     {"She is busy, isn't she?", "They are busy, aren't they?", "tag isn't"},
     {"He works late, doesn't he?", "They work late, don't they?", "tag doesn't"},
     {"He was there, wasn't he?", "They were there, weren't they?", "tag wasn't"},
