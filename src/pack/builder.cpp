@@ -393,6 +393,40 @@ bool PackBuilder::split_columns(const SourceRef& where, std::string_view line, c
   return true;
 }
 
+// One column per group: checks each form (or name: `what`), writes "" for '-', and the
+// folded tokens of each present form. Returns how many groups have a form; clears `ok` on a
+// problem, which it reports.
+size_t PackBuilder::read_forms(const SourceRef& where, const std::vector<std::string>& columns,
+                               const char* what, std::vector<std::string>& forms,
+                               std::vector<std::vector<std::string>>& tokens, bool& ok) {
+  tokens.assign(columns.size(), {});
+  size_t present = 0;
+  for (size_t g = 0; g < columns.size(); ++g) {
+    const std::string& c = columns[g];
+    if (c.empty()) {
+      diag(where, "form-empty",
+           std::string("empty ") + what + " in column " + std::to_string(g + 1) + " (" +
+               groups_[g] + "); write '-' when a group has no " + what);
+      ok = false;
+      forms.emplace_back();
+      continue;
+    }
+    if (c == "-") {
+      forms.emplace_back();
+      continue;
+    }
+    if (auto problem = detail::form_problem(c)) {
+      diag(where, "form-invalid",
+           std::string(what) + " '" + c + "' (" + groups_[g] + "): " + *problem);
+      ok = false;
+    }
+    forms.push_back(c);
+    tokens[g] = detail::folded_tokens(c);
+    ++present;
+  }
+  return present;
+}
+
 void PackBuilder::parse_set_line(const SourceRef& where, std::string_view line) {
   std::vector<std::string> columns, markers;
   if (!split_columns(where, line, "set", columns, markers)) return;
@@ -423,30 +457,8 @@ void PackBuilder::parse_set_line(const SourceRef& where, std::string_view line) 
   WordSet set;
   set.tag = tag;
   set.where = where;
-  std::vector<std::vector<std::string>> tokens(columns.size());
-  size_t present = 0;
-  for (size_t g = 0; g < columns.size(); ++g) {
-    const std::string& c = columns[g];
-    if (c.empty()) {
-      diag(where, "form-empty",
-           "empty form in column " + std::to_string(g + 1) + " (" + groups_[g] +
-               "); write '-' when a group has no form");
-      ok = false;
-      set.forms.emplace_back();
-      continue;
-    }
-    if (c == "-") {
-      set.forms.emplace_back();
-      continue;
-    }
-    if (auto problem = detail::form_problem(c)) {
-      diag(where, "form-invalid", "form '" + c + "' (" + groups_[g] + "): " + *problem);
-      ok = false;
-    }
-    set.forms.push_back(c);
-    tokens[g] = detail::folded_tokens(c);
-    ++present;
-  }
+  std::vector<std::vector<std::string>> tokens;
+  size_t present = read_forms(where, columns, "form", set.forms, tokens, ok);
   if (ok && present == 0) {
     diag(where, "set-empty", "a set needs a form in at least one group (all are '-')");
     ok = false;
@@ -473,30 +485,8 @@ void PackBuilder::parse_name_line(const SourceRef& where, std::string_view line)
       ok = false;
     }
   }
-  std::vector<std::vector<std::string>> tokens(columns.size());
-  size_t present = 0;
-  for (size_t g = 0; g < columns.size(); ++g) {
-    const std::string& c = columns[g];
-    if (c.empty()) {
-      diag(where, "form-empty",
-           "empty name in column " + std::to_string(g + 1) + " (" + groups_[g] +
-               "); write '-' when a group has no name");
-      ok = false;
-      pair.names.emplace_back();
-      continue;
-    }
-    if (c == "-") {
-      pair.names.emplace_back();
-      continue;
-    }
-    if (auto problem = detail::form_problem(c)) {
-      diag(where, "form-invalid", "name '" + c + "' (" + groups_[g] + "): " + *problem);
-      ok = false;
-    }
-    pair.names.push_back(c);
-    tokens[g] = detail::folded_tokens(c);
-    ++present;
-  }
+  std::vector<std::vector<std::string>> tokens;
+  size_t present = read_forms(where, columns, "name", pair.names, tokens, ok);
   if (ok && present < 2) {
     diag(where, "name-too-few",
          "a name pair needs names in at least two groups (a name without a counterpart maps "

@@ -43,6 +43,9 @@ class PackBuilder {
   void parse_section_line(const SourceRef& where, std::string_view line);
   void parse_set_line(const SourceRef& where, std::string_view line);
   void parse_name_line(const SourceRef& where, std::string_view line);
+  size_t read_forms(const SourceRef& where, const std::vector<std::string>& columns,
+                    const char* what, std::vector<std::string>& forms,
+                    std::vector<std::vector<std::string>>& tokens, bool& ok);
   void parse_phrase_line(const SourceRef& where, std::string_view line);
   // Splits "a | b | c  @tag ~mark" into trimmed columns and the marker tokens after them;
   // false (with a diagnostic) when the columns are not one per group.
