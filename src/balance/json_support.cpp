@@ -135,6 +135,16 @@ Result<simdjson::dom::object> parse_root(simdjson::dom::parser& parser, std::str
   return obj;
 }
 
+void write_header_members(audit::JsonWriter& w, std::string_view schema, const std::string& axis,
+                          const std::vector<std::string>& groups, const std::string& pack_sha256) {
+  w.key("schema").value(schema);
+  w.key("axis").value(axis);
+  w.key("groups").begin_array();
+  for (const auto& g : groups) w.value(g);
+  w.end_array();
+  w.key("pack_sha256").value(pack_sha256);
+}
+
 void write_signature_members(audit::JsonWriter& w, const Signature& s) {
   w.key("changeable").value(s.changeable);
   w.key("before").begin_array();

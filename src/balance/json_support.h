@@ -16,6 +16,11 @@
 
 namespace evenhand::balance::detail {
 
+// Writes the members that open every balance document (schema, axis, groups, pack_sha256)
+// into the object that `w` has open.
+void write_header_members(audit::JsonWriter& w, std::string_view schema, const std::string& axis,
+                          const std::vector<std::string>& groups, const std::string& pack_sha256);
+
 // Writes the members of `s` (changeable, before, after, lead_before, lead_after) into the
 // object that `w` has open.
 void write_signature_members(audit::JsonWriter& w, const Signature& s);

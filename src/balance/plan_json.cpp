@@ -11,12 +11,7 @@ std::string plan_to_json(const Plan& p, int indent) {
   std::string out;
   audit::JsonWriter w(out, indent);
   w.begin_object();
-  w.key("schema").value(kPlanSchema);
-  w.key("axis").value(p.axis);
-  w.key("groups").begin_array();
-  for (const auto& g : p.groups) w.value(g);
-  w.end_array();
-  w.key("pack_sha256").value(p.pack_sha256);
+  detail::write_header_members(w, kPlanSchema, p.axis, p.groups, p.pack_sha256);
   w.key("target").begin_array();
   for (const auto& t : p.target) {
     w.begin_object();

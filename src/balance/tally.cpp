@@ -169,12 +169,7 @@ std::string tally_to_json(const Tally& t, int indent) {
   std::string out;
   audit::JsonWriter w(out, indent);
   w.begin_object();
-  w.key("schema").value(kTallySchema);
-  w.key("axis").value(t.axis);
-  w.key("groups").begin_array();
-  for (const auto& g : t.groups) w.value(g);
-  w.end_array();
-  w.key("pack_sha256").value(t.pack_sha256);
+  detail::write_header_members(w, kTallySchema, t.axis, t.groups, t.pack_sha256);
   w.key("count_bins")
       .value(
           "counts 0-8 exact, then 9-16, 17-32, 33-64, ...; a bin is written as its lowest count");
