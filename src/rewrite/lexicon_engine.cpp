@@ -145,6 +145,7 @@ class LexiconWorker final : public Worker {
   std::vector<text::Span> spans_;
   std::vector<std::string_view> words_;  // folded items for the possessive model
   std::string scratch_;
+  std::vector<const pack::LexEntry*> cands_;  // entries matching at one position
 };
 
 class LexiconEngine final : public Engine {
@@ -377,7 +378,8 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
     const pack::LexEntry* first = nullptr;
     size_t len = 0;
     uint32_t clitic = 0;
-    std::vector<const pack::LexEntry*> cands;
+    std::vector<const pack::LexEntry*>& cands = cands_;
+    cands.clear();
     for (const auto& en : *entries) {
       if (first && en.words.size() < len) break;
       uint32_t c;
@@ -450,7 +452,7 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
       }
       if (!decided || score < kLowMargin) ++out.ambiguous;
     }
-    std::string replacement = form_of(chosen);
+    std::string_view replacement = form_of(chosen);
     if (e_.options_.themselves && replacement == "themself") replacement = "themselves";
     if (guarded || t == g || replacement.empty()) {
       ++out.after[g];
