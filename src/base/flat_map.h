@@ -43,9 +43,11 @@ class FlatStringMap {
     return true;
   }
 
-  const V* find(std::string_view key) const {
+  const V* find(std::string_view key) const { return find(key, WordHash{}(key)); }
+
+  // find() for a caller that has hashed `key` with WordHash already.
+  const V* find(std::string_view key, uint64_t h) const {
     if (size_ == 0) return nullptr;
-    uint64_t h = WordHash{}(key);
     for (size_t i = h & mask_; slots_[i].len1 != 0; i = (i + 1) & mask_) {
       const Slot& s = slots_[i];
       if (s.hash == h && key_of(s) == key) return &s.value;

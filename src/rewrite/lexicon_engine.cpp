@@ -92,7 +92,7 @@ class WordIndex {
   const WordSlots* find(std::string_view key) const {
     uint64_t h = WordHash{}(key);
     if (!filter_[(h >> 48) & 0xffff] || !filter_[(h >> 32) & 0xffff]) return nullptr;
-    return table_.find(key);
+    return table_.find(key, h);
   }
 
  private:
