@@ -105,10 +105,11 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
                    : kind == "contraction" ? (kDet | kArticle | kContraction)
                    : kind == "after"       ? kAfter
                    : kind == "clitic"      ? kClitic
+                   : kind == "inert"       ? kInert
                                            : 0;
     if (role) {
       if (d.f.size() != 3) return err(kind + " takes a female and a male form");
-      std::string fem = d.f[1], masc = d.f[2];
+      std::string fem = d.f[1] == "-" ? "" : d.f[1], masc = d.f[2] == "-" ? "" : d.f[2];
       std::replace(fem.begin(), fem.end(), '_', ' ');
       std::replace(masc.begin(), masc.end(), '_', ' ');
       bool found = false;
@@ -126,6 +127,7 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
                       : kind == "copula" ? &t->copula_
                       : kind == "adverb" ? &t->adverb_
                       : kind == "verb"   ? &t->verb_
+                      : kind == "neuter" ? &t->neuter_
                       : kind == "word"   ? &t->word_
                                          : nullptr;
     if (!list) return err("unknown entry kind '" + kind + "'");
@@ -457,8 +459,7 @@ struct NounPhraseAgreement::Worker {
       size_t c = j - 1;
       if (!word(c) || claimed[c] || any_dependent(c) || t.in(t.fixed_, fold(c)) || person_word(c) ||
           t.in(t.word_, fold(c)) || t.in(t.copula_, fold(c)) || t.in(t.verb_, fold(c)) ||
-          t.in(t.adverb_, fold(c)) || text::case_pattern(raw(c)) == text::CasePattern::upper ||
-          !looks_agreeing(fold(c), g, plural))
+          t.in(t.adverb_, fold(c)) || !looks_agreeing(fold(c), g, plural))
         break;
       adjs.push_back(c);
       j = c;
@@ -552,7 +553,8 @@ struct NounPhraseAgreement::Worker {
       if (any_dependent(j) || person_word(j) || t.in(t.fixed_, w) || t.in(t.copula_, w) ||
           t.in(t.adverb_, w) || t.in(t.verb_, w) || t.in(t.word_, w))
         break;
-      if (text::case_pattern(raw(j)) != text::CasePattern::lower) break;  // a name
+      auto pat = text::case_pattern(raw(j));
+      if (pat == text::CasePattern::title || pat == text::CasePattern::mixed) break;  // a name
       auto r = t.inflect(w, from, to, plural, false, false);
       if (r.kind == Inflection::changed) {
         add_edit(j, j, r.form, EditReason::agreement, nullptr,
@@ -615,7 +617,8 @@ struct NounPhraseAgreement::Worker {
       if (any_dependent(j) || person_word(j) || t.in(t.fixed_, w) || t.in(t.copula_, w) ||
           t.in(t.verb_, w) || t.in(t.word_, w))
         return;
-      if (text::case_pattern(raw(j)) != text::CasePattern::lower) return;
+      auto pat = text::case_pattern(raw(j));
+      if (pat == text::CasePattern::title || pat == text::CasePattern::mixed) return;
       // "es buena persona": the adjective belongs to the epicene noun after it.
       if (word(j + 1)) {
         auto nit = t.nouns_.find(fold(j + 1));
@@ -670,6 +673,9 @@ struct NounPhraseAgreement::Worker {
     bool next_ok = word(k + 1) && !person_word(k + 1) && !any_dependent(k + 1) &&
                    !t.adj_forms_.count(std::string(fold(k + 1))) && !t.in(t.word_, fold(k + 1));
     if (!verb_next && !(intro && next_ok)) return false;
+    // "él lo dijo": before a verb of saying or knowing, "lo" is the neuter clitic.
+    if (*g == Gender::masculine && !plural && word(k + 1) && t.in(t.neuter_, fold(k + 1)))
+      return false;
     const Person& p = persons[who];
     auto tg = gender_of(p.to_group);
     if (!tg || *tg == *g) return false;

@@ -111,7 +111,14 @@ class NounPhraseAgreement {
   template <class V>
   using Map = std::unordered_map<std::string, V, Hash, std::equal_to<>>;
 
-  enum Role : uint8_t { kDet = 1, kArticle = 2, kContraction = 4, kAfter = 8, kClitic = 16 };
+  enum Role : uint8_t {
+    kDet = 1,
+    kArticle = 2,
+    kContraction = 4,
+    kAfter = 8,
+    kClitic = 16,
+    kInert = 32,
+  };
   enum Slot : uint8_t { m_sg = 0, f_sg = 1, m_pl = 2, f_pl = 3 };
   struct Adjective {
     std::array<std::string, 4> forms;  // by Slot
@@ -145,7 +152,7 @@ class NounPhraseAgreement {
   std::vector<std::string> invariable_endings_;
   Map<Noun> nouns_;
   Map<bool> stressed_a_;  // feminine stressed-a nouns, singular forms
-  Map<bool> fixed_, copula_, adverb_, verb_, word_;
+  Map<bool> fixed_, copula_, adverb_, verb_, neuter_, word_;
   const pack::CompiledPack* pack_ = nullptr;  // the pack it was read from; must outlive it
 };
 
