@@ -106,6 +106,7 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
                    : kind == "after"       ? kAfter
                    : kind == "clitic"      ? kClitic
                    : kind == "inert"       ? kInert
+                   : kind == "pronoun"     ? kPronoun
                                            : 0;
     if (role) {
       if (d.f.size() != 3) return err(kind + " takes a female and a male form");
@@ -329,6 +330,7 @@ struct NounPhraseAgreement::Worker {
   // The nearest earlier noun phrase of each gender (0 f, 1 m) and number (0 sg, 1 pl): -1 when
   // none, else the index of the person mention in `persons` or -2 for a phrase of no person.
   int last[2][2] = {{-1, -1}, {-1, -1}};
+  int last_person[2][2] = {{-1, -1}, {-1, -1}};  // the nearest earlier person mention
   struct Person {
     std::string from_word, to_word;
     uint16_t to_group = 0;
@@ -406,7 +408,7 @@ struct NounPhraseAgreement::Worker {
   bool person_word(size_t k) const {
     SetMatch m = match(k);
     for (const auto* e : m.entries)
-      if (e->is_name || t.set_roles_[e->set] == 0) return true;
+      if (e->is_name || t.person_set(e->set)) return true;
     return t.nouns_.count(std::string(fold(k))) > 0;
   }
 
@@ -648,6 +650,7 @@ struct NounPhraseAgreement::Worker {
 
   void remember(Gender g, bool plural, int who) {
     last[g == Gender::feminine ? 0 : 1][plural ? 1 : 0] = who;
+    if (who >= 0) last_person[g == Gender::feminine ? 0 : 1][plural ? 1 : 0] = who;
   }
 
   bool is_stressed(std::string_view folded_form) const {
@@ -661,8 +664,9 @@ struct NounPhraseAgreement::Worker {
     auto g = gender_of(e->group);
     if (!g) return false;
     bool plural = plural_form(fold(k));
-    int who = last[*g == Gender::feminine ? 0 : 1][plural ? 1 : 0];
-    if (who < 0) return false;
+    int gi = *g == Gender::feminine ? 0 : 1, ni = plural ? 1 : 0;
+    int who = last[gi][ni];
+    if (who == -1) return false;
     bool verb_next = word(k + 1) && !person_word(k + 1) && !any_dependent(k + 1) &&
                      (t.in(t.verb_, fold(k + 1)) || verb_ending(fold(k + 1)));
     static const char* const kBefore[] = {"no",      "se", "ya", "nunca", "jamás",
@@ -676,6 +680,16 @@ struct NounPhraseAgreement::Worker {
     // "él lo dijo": before a verb of saying or knowing, "lo" is the neuter clitic.
     if (*g == Gender::masculine && !plural && word(k + 1) && t.in(t.neuter_, fold(k + 1)))
       return false;
+    if (who == -2) {
+      // The nearest phrase of this gender is no person, but a rewritten person came before
+      // it: the clitic may refer to either ("vi a mi hermano en el ensayo y lo saludé").
+      if (last_person[gi][ni] >= 0) {
+        const Person& p = persons[static_cast<size_t>(last_person[gi][ni])];
+        flag("unsettled_clitic", "'" + std::string(raw(k)) + "' may refer to '" + p.from_word +
+                                     "' or to a later noun of the same gender");
+      }
+      return false;
+    }
     const Person& p = persons[who];
     auto tg = gender_of(p.to_group);
     if (!tg || *tg == *g) return false;
@@ -692,7 +706,7 @@ struct NounPhraseAgreement::Worker {
       const pack::LexEntry* person = nullptr;
       bool one_group = true;
       for (const auto* e : m.entries) {
-        if (e->is_name || t.set_roles_[e->set] == 0) {
+        if (e->is_name || t.person_set(e->set)) {
           if (person && person->group != e->group) one_group = false;
           if (!person) person = e;
         }
@@ -736,7 +750,9 @@ struct NounPhraseAgreement::Worker {
       if (pat != text::CasePattern::title && pat != text::CasePattern::upper) return;
     }
     uint16_t g = en.group;
-    Left l = left_of(k, gender_of(g), plural_form(pack::fold_word(from_form)));
+    Left l;
+    if (en.is_name || !(t.set_roles_[en.set] & kPronoun))
+      l = left_of(k, gender_of(g), plural_form(pack::fold_word(from_form)));
     if (en.tag == pack::Tag::noun && l.dets.empty()) return;  // "ella ama", "atención médica"
 
     ++out.before[g];
@@ -792,6 +808,17 @@ struct NounPhraseAgreement::Worker {
     remember(*g, plural, static_cast<int>(persons.size() - 1));
   }
 };
+
+std::vector<std::string> NounPhraseAgreement::adjective_forms() const {
+  std::vector<std::string> out;
+  for (const auto& a : adjectives_) {
+    out.insert(out.end(), a.forms.begin(), a.forms.end());
+    if (!a.short_form.empty()) out.push_back(a.short_form);
+  }
+  std::sort(out.begin(), out.end());
+  out.erase(std::unique(out.begin(), out.end()), out.end());
+  return out;
+}
 
 void NounPhraseAgreement::rewrite_field(const Field& field, RecordResult& out) const {
   Worker w(*this, field, out);

@@ -102,6 +102,10 @@ class NounPhraseAgreement {
   Inflection inflect(std::string_view folded, Gender from, Gender to, bool plural, bool certain,
                      bool before_noun) const;
 
+  // Every form a known adjective can be given (all genders and numbers, apocopes), sorted:
+  // the forms the tables can write, for checks against a dictionary.
+  std::vector<std::string> adjective_forms() const;
+
  private:
   NounPhraseAgreement() = default;
   struct Hash {
@@ -118,7 +122,10 @@ class NounPhraseAgreement {
     kAfter = 8,
     kClitic = 16,
     kInert = 32,
+    kPronoun = 64,  // a person word, not a dependent
   };
+  // True when set `s` is a person word (no dependent role).
+  bool person_set(uint32_t s) const { return (set_roles_[s] & ~kPronoun) == 0; }
   enum Slot : uint8_t { m_sg = 0, f_sg = 1, m_pl = 2, f_pl = 3 };
   struct Adjective {
     std::array<std::string, 4> forms;  // by Slot

@@ -107,6 +107,8 @@ const Case kCases[] = {
     {"clitic of a thing stays", "Mi hermana compró una casa y la pintó.",
      "Mi hermano compró una casa y la pintó."},
     {"pronoun with misma", "Ella misma lo dijo.", "Él mismo lo dijo."},
+    {"a pronoun takes no determiner: el sábado is not its phrase", "El sábado él estaba contento.",
+     "El sábado ella estaba contenta."},
     // Determiners and contractions.
     {"al", "Al abuelo le gusta el agua fría.", "A la abuela le gusta el agua fría."},
     {"de la", "La casa de la abuela es bonita.", "La casa del abuelo es bonita."},
@@ -217,6 +219,10 @@ TEST_CASE("Spanish words that cannot be inflected with confidence are flagged",
   // A verb of the list after the noun is no adjective: no flag.
   CHECK(rw("La niña canta.") == "El niño canta.");
   CHECK(rw.result.flags.empty());
+  // The nearest masculine phrase before "lo" is no person, but a rewritten man came before it.
+  CHECK(rw("Vi a mi hermano en el ensayo y lo saludé.") ==
+        "Vi a mi hermana en el ensayo y lo saludé.");
+  CHECK(rw.flagged("unsettled_clitic"));
   // A determiner of the other gender before the noun.
   rw("El niña llegó.");
   CHECK(rw.flagged("unsettled_determiner"));
