@@ -599,16 +599,41 @@ struct NounPhraseAgreement::Worker {
         }
       }
     }
-    predicate(j, from, to, plural, who);
+    // "ella y su madre": a person word right before the conjunction; ", y el presidente
+    // quedó" joins clauses, not subjects.
+    bool coordinated =
+        start > 1 && word(start - 1) && conjunction(fold(start - 1)) && person_word(start - 2);
+    predicate(j, from, to, plural, who, coordinated);
   }
 
-  void predicate(size_t j, Gender from, Gender to, bool plural, const std::string& who) {
-    if (word(j) && (fold(j) == "y" || fold(j) == "e" || fold(j) == "o")) return;
+  static bool conjunction(std::string_view w) {
+    return w == "y" || w == "e" || w == "o" || w == "u" || w == "ni";
+  }
+
+  // `coordinated`: the subject is the second part of "X y Y".
+  void predicate(size_t j, Gender from, Gender to, bool plural, const std::string& who,
+                 bool coordinated = false) {
+    if (word(j) && conjunction(fold(j))) {
+      // "ella y su madre están cansadas": the predicate agrees with both; not settled here.
+      for (size_t c = j + 1, words = 0; c < n && words < 6 && word(c); ++c, ++words) {
+        if (t.in(t.copula_, fold(c))) {
+          flag("unsettled_predicate",
+               "coordinated subject " + who + " before '" + std::string(raw(c)) + "'");
+          break;
+        }
+      }
+      return;
+    }
     auto adverb = [&](size_t i) {
       return word(i) && (t.in(t.adverb_, fold(i)) || ends_with(fold(i), "mente"));
     };
     for (int s = 0; s < 3 && adverb(j); ++s) ++j;
     if (!word(j) || !t.in(t.copula_, fold(j))) return;
+    if (coordinated) {
+      flag("unsettled_predicate",
+           "coordinated subject " + who + " before '" + std::string(raw(j)) + "'");
+      return;
+    }
     std::string cop(raw(j));
     ++j;
     // "ha sido elegida": a participle of ser/estar after the copula is part of it.

@@ -223,6 +223,9 @@ TEST_CASE("Spanish words that cannot be inflected with confidence are flagged",
   CHECK(rw("Vi a mi hermano en el ensayo y lo saludé.") ==
         "Vi a mi hermana en el ensayo y lo saludé.");
   CHECK(rw.flagged("unsettled_clitic"));
+  // A coordinated subject: the predicate agrees with both parts; not settled.
+  CHECK(rw("Ella y su madre están cansadas.") == "Él y su padre están cansadas.");
+  CHECK(rw.flagged("unsettled_predicate"));
   // A determiner of the other gender before the noun.
   rw("El niña llegó.");
   CHECK(rw.flagged("unsettled_determiner"));
