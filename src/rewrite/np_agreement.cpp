@@ -60,12 +60,13 @@ bool plural_form(std::string_view folded) {
 }
 
 // Endings that mark a finite verb form and no noun or adjective of a person: preterite,
-// imperfect, future (common practice; used only as evidence for a clitic).
+// imperfect, future, first person plural (common practice; used only as evidence for a
+// clitic, which must also have a rewritten person as its nearest antecedent).
 bool verb_ending(std::string_view w) {
   if (w.size() < 3) return false;
-  for (std::string_view e :
-       {"\xC3\xB3", "\xC3\xA9", "aba", "aban", "aron", "ieron", "aste", "iste", "ar\xC3\xA1",
-        "er\xC3\xA1", "ir\xC3\xA1", "ar\xC3\xA1n", "er\xC3\xA1n", "ir\xC3\xA1n"}) {
+  for (std::string_view e : {"\xC3\xB3", "\xC3\xA9", "aba", "aban", "aron", "ieron", "aste", "iste",
+                             "amos", "emos", "imos", "ar\xC3\xA1", "er\xC3\xA1", "ir\xC3\xA1",
+                             "ar\xC3\xA1n", "er\xC3\xA1n", "ir\xC3\xA1n"}) {
     if (ends_with(w, e)) return true;
   }
   return false;

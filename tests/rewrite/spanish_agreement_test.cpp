@@ -103,6 +103,8 @@ const Case kCases[] = {
     {"nosotras with estar", "Nosotras estamos contentas.", "Nosotros estamos contentos."},
     {"clitic refers to a rewritten person", "Vi a mi hermana y la saludé.",
      "Vi a mi hermano y lo saludé."},
+    {"clitic before a first-person plural verb, and a la -> al",
+     "Vimos a la profesora nueva; la saludamos.", "Vimos al profesor nuevo; lo saludamos."},
     {"clitic after no", "Mi abuelo llegó, pero no lo vi.", "Mi abuela llegó, pero no la vi."},
     {"clitic of a thing stays", "Mi hermana compró una casa y la pintó.",
      "Mi hermano compró una casa y la pintó."},
