@@ -462,7 +462,8 @@ struct NounPhraseAgreement::Worker {
       size_t c = j - 1;
       if (!word(c) || claimed[c] || any_dependent(c) || t.in(t.fixed_, fold(c)) || person_word(c) ||
           t.in(t.word_, fold(c)) || t.in(t.copula_, fold(c)) || t.in(t.verb_, fold(c)) ||
-          t.in(t.adverb_, fold(c)) || !looks_agreeing(fold(c), g, plural))
+          t.in(t.adverb_, fold(c)) || t.nouns_.count(std::string(fold(c))) ||
+          t.stressed_a_.count(std::string(fold(c))) || !looks_agreeing(fold(c), g, plural))
         break;
       adjs.push_back(c);
       j = c;
@@ -510,6 +511,7 @@ struct NounPhraseAgreement::Worker {
              std::string_view to_word, bool old_stressed, bool new_stressed, const Left& l) {
     std::string who = "'" + std::string(from_word) + "' -> '" + std::string(to_word) + "'";
     size_t nearest = l.adjs.empty() ? k : l.adjs.back();
+    bool dets_agree = true;
     for (size_t i : l.dets) {
       bool adjacent = (contraction_at(i) ? i + 2 : i + 1) == nearest && l.adjs.empty();
       auto g = det_gender(i, adjacent, old_stressed && !plural);
@@ -518,6 +520,7 @@ struct NounPhraseAgreement::Worker {
       size_t last = e ? i + 1 : i;
       if (!e) e = dependent(i, kDet);
       if (*g != from) {
+        dets_agree = false;
         flag("unsettled_determiner",
              "'" + std::string(raw(i)) + "' before " + who + " does not agree with the noun");
         continue;
@@ -534,6 +537,7 @@ struct NounPhraseAgreement::Worker {
       add_edit(i, last, form, EditReason::agreement, &pk.sets()[e->set].where, note);
     }
     for (size_t a : l.adjs) {
+      if (!dets_agree) break;  // "el hada madrina": the phrase is not this noun's
       auto r = t.inflect(fold(a), from, to, plural, true, true);
       if (r.kind == Inflection::changed) {
         add_edit(a, a, r.form, EditReason::agreement, nullptr,
@@ -587,7 +591,9 @@ struct NounPhraseAgreement::Worker {
     if (start > 0)
       for (const char* p : kPrepositions) after_prep = after_prep || fold(start - 1) == p;
     if (contraction_at(start) || dependent(start, kContraction)) after_prep = true;
-    if (after_prep) return;
+    // A predicative noun ("es médica y ...") is no subject either.
+    bool predicative = start > 0 && t.in(t.copula_, fold(start - 1));
+    if (after_prep || predicative) return;
     // "el hijo de mi vecina es alto": the predicate agrees with the head, past a complement
     // with "de" (whose own noun, after the preposition, governs no predicate).
     if (word(j) && (fold(j) == "de" || fold(j) == "del")) {
@@ -602,8 +608,8 @@ struct NounPhraseAgreement::Worker {
     }
     // "ella y su madre": a person word right before the conjunction; ", y el presidente
     // quedó" joins clauses, not subjects.
-    bool coordinated =
-        start > 1 && word(start - 1) && conjunction(fold(start - 1)) && person_word(start - 2);
+    bool coordinated = start > 1 && word(start - 1) && conjunction(fold(start - 1)) &&
+                       person_word(start - 2) && !(start > 2 && t.in(t.copula_, fold(start - 3)));
     predicate(j, from, to, plural, who, coordinated);
   }
 
@@ -779,7 +785,10 @@ struct NounPhraseAgreement::Worker {
     Left l;
     if (en.is_name || !(t.set_roles_[en.set] & kPronoun))
       l = left_of(k, gender_of(g), plural_form(pack::fold_word(from_form)));
-    if (en.tag == pack::Tag::noun && l.dets.empty()) return;  // "ella ama", "atención médica"
+    // "ella ama", "atención médica": a verb or an adjective; "es médica" (after a copula) and
+    // "la médica" are the noun.
+    if (en.tag == pack::Tag::noun && l.dets.empty() && !(k > 0 && t.in(t.copula_, fold(k - 1))))
+      return;
 
     ++out.before[g];
     uint16_t tg = in.target[g];
