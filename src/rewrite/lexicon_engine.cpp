@@ -666,7 +666,7 @@ Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::Compiled
   }
   std::shared_ptr<const NounPhraseAgreement> np;
   if (pack->file(kNounPhraseFile)) {
-    auto n = NounPhraseAgreement::from_pack(*pack);
+    auto n = NounPhraseAgreement::from_pack(pack);
     if (!n.ok()) return std::move(n).error();
     np = std::move(*n);
   }

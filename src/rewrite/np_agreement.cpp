@@ -75,9 +75,10 @@ bool verb_ending(std::string_view w) {
 }  // namespace
 
 Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pack(
-    const pack::CompiledPack& p) {
+    std::shared_ptr<const pack::CompiledPack> shared) {
   std::shared_ptr<NounPhraseAgreement> t(new NounPhraseAgreement());
-  t->pack_ = &p;
+  const pack::CompiledPack& p = *shared;
+  t->pack_ = std::move(shared);
   t->set_roles_.assign(p.sets().size(), 0);
   auto need = [&](const char* name) -> const std::string* { return p.file(name); };
   for (const char* f : {kNounPhraseFile, kAdjectivesFile, kNounsFile, kStressedFile}) {

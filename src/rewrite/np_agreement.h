@@ -67,8 +67,9 @@ class NounPhraseAgreement {
   // Returns the table, or an Error of kind pack naming file and line of the first problem (a
   // missing file, an unknown line kind, a set that words.txt does not have, a group the pack
   // does not have).
+  // The table keeps the pack alive.
   static Result<std::shared_ptr<const NounPhraseAgreement>> from_pack(
-      const pack::CompiledPack& pack);
+      std::shared_ptr<const pack::CompiledPack> pack);
 
   // One field to rewrite. `target` maps each group to the group it is rewritten to (as the
   // engine decided); `spans` are the protected spans, sorted by begin.
@@ -160,7 +161,7 @@ class NounPhraseAgreement {
   Map<Noun> nouns_;
   Map<bool> stressed_a_;  // feminine stressed-a nouns, singular forms
   Map<bool> fixed_, copula_, adverb_, verb_, neuter_, word_;
-  const pack::CompiledPack* pack_ = nullptr;  // the pack it was read from; must outlive it
+  std::shared_ptr<const pack::CompiledPack> pack_;  // the pack it was read from
 };
 
 }  // namespace evenhand::rewrite

@@ -93,7 +93,7 @@ TEST_CASE("every adjective form the Spanish agreement can write is in hunspell e
   std::vector<evenhand::pack::Diagnostic> diags;
   auto p = evenhand::pack::load_pack("es-gender", diags);
   REQUIRE(p.ok());
-  auto np = evenhand::rewrite::NounPhraseAgreement::from_pack(**p);
+  auto np = evenhand::rewrite::NounPhraseAgreement::from_pack(*p);
   REQUIRE(np.ok());
   auto forms = (*np)->adjective_forms();
   std::set<std::string> words(forms.begin(), forms.end());

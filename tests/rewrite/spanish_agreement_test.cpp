@@ -272,7 +272,7 @@ TEST_CASE("a guard blocks Spanish agreement too", "[rewrite][spanish]") {
 }
 
 TEST_CASE("Spanish adjectives inflect by rule with the exception lists", "[rewrite][spanish]") {
-  auto np = NounPhraseAgreement::from_pack(*es_pack());
+  auto np = NounPhraseAgreement::from_pack(es_pack());
   REQUIRE(np.ok());
   const NounPhraseAgreement& t = **np;
   auto to_f = [&](const char* w, bool plural = false) {
