@@ -60,13 +60,13 @@ bool plural_form(std::string_view folded) {
 }
 
 // Endings that mark a finite verb form and no noun or adjective of a person: preterite,
-// imperfect, future, first person plural (common practice; used only as evidence for a
-// clitic, which must also have a rewritten person as its nearest antecedent).
+// imperfect, future, first person plural, preterite in -í (common practice; used only as evidence
+// for a clitic, which must also have a rewritten person as its nearest antecedent).
 bool verb_ending(std::string_view w) {
   if (w.size() < 3) return false;
-  for (std::string_view e : {"\xC3\xB3", "\xC3\xA9", "aba", "aban", "aron", "ieron", "aste", "iste",
-                             "amos", "emos", "imos", "ar\xC3\xA1", "er\xC3\xA1", "ir\xC3\xA1",
-                             "ar\xC3\xA1n", "er\xC3\xA1n", "ir\xC3\xA1n"}) {
+  for (std::string_view e : {"\xC3\xB3", "\xC3\xA9", "\xC3\xAD", "aba", "aban", "aron", "ieron",
+                             "aste", "iste", "amos", "emos", "imos", "ar\xC3\xA1", "er\xC3\xA1",
+                             "ir\xC3\xA1", "ar\xC3\xA1n", "er\xC3\xA1n", "ir\xC3\xA1n"}) {
     if (ends_with(w, e)) return true;
   }
   return false;
@@ -108,6 +108,7 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
                    : kind == "after"       ? kAfter
                    : kind == "clitic"      ? kClitic
                    : kind == "inert"       ? kInert
+                   : kind == "alone"       ? kAlone
                    : kind == "pronoun"     ? kPronoun
                                            : 0;
     if (role) {
@@ -547,8 +548,11 @@ struct NounPhraseAgreement::Worker {
         flag("unsettled_adjective", r.reason + ", before " + who);
       }
     }
-    // After the noun.
+    // After the noun; "la niña, cansada, ...": a known adjective between commas too.
     size_t j = k + len;
+    if (j + 2 < n && fold(j) == "," && word(j + 1) &&
+        t.adj_forms_.count(std::string(fold(j + 1))) && fold(j + 2) == ",")
+      ++j;
     for (int count = 0; count < 3 && word(j) && !claimed[j]; ++count) {
       if (const auto* e = dependent(j, kAfter)) {
         if (gender_of(e->group) != from) break;
@@ -594,6 +598,25 @@ struct NounPhraseAgreement::Worker {
     if (contraction_at(start) || dependent(start, kContraction)) after_prep = true;
     // A predicative noun ("es médica y ...") is no subject either.
     bool predicative = start > 0 && t.in(t.copula_, fold(start - 1));
+    // "Esa es la tía": a demonstrative standing alone at the start of the clause is the
+    // subject and refers to the same person as the predicative noun.
+    if (predicative && start >= 2 && (start == 2 || !word(start - 3))) {
+      const pack::LexEntry* e = dependent(start - 2, kDet);
+      if (e && gender_of(e->group) == from && !t.person_set(e->set))
+        add_edit(start - 2, start - 2, pk.sets()[e->set].forms[group_of(to)], EditReason::agreement,
+                 &pk.sets()[e->set].where,
+                 "subject of '" + std::string(raw(start - 1)) + "' refers to " + who);
+    }
+    // "una de las chicas", "ninguno de ellos": a quantifier standing for the noun, before "de".
+    if (start >= 2 && fold(start - 1) == "de") {
+      const pack::LexEntry* e = dependent(start - 2, kAlone);
+      if (!e) e = dependent(start - 2, kDet);
+      const std::string* form = e ? &pk.sets()[e->set].forms[group_of(to)] : nullptr;
+      if (e && gender_of(e->group) == from && !form->empty() &&
+          !(dependent(start - 2, kArticle) && !dependent(start - 2, kAlone)))
+        add_edit(start - 2, start - 2, *form, EditReason::agreement, &pk.sets()[e->set].where,
+                 "stands for " + who + " before 'de'");
+    }
     if (after_prep || predicative) return;
     // "el hijo de mi vecina es alto": the predicate agrees with the head, past a complement
     // with "de" (whose own noun, after the preposition, governs no predicate).

@@ -124,6 +124,7 @@ class NounPhraseAgreement {
     kClitic = 16,
     kInert = 32,
     kPronoun = 64,  // a person word, not a dependent
+    kAlone = 128,   // stands for its noun ("alguna de ellas")
   };
   // True when set `s` is a person word (no dependent role).
   bool person_set(uint32_t s) const { return (set_roles_[s] & ~kPronoun) == 0; }

@@ -123,6 +123,12 @@ const Case kCases[] = {
     {"varios and a known adjective", "Varias chicas altas cantaron.",
      "Varios chicos altos cantaron."},
     {"mismo before the noun", "La misma chica volvió.", "El mismo chico volvió."},
+    {"partitive una de", "Una de las chicas llegó tarde.", "Uno de los chicos llegó tarde."},
+    {"partitive ninguno de with a pronoun", "Ninguno de ellos vino.", "Ninguna de ellas vino."},
+    {"partitive alguna de", "Alguna de mis tías vino.", "Alguno de mis tíos vino."},
+    {"demonstrative subject of a predicative noun", "Esa es la tía de Juan; la conocí ayer.",
+     "Ese es el tío de Juan; lo conocí ayer."},
+    {"adjective between commas", "La niña, cansada, se durmió.", "El niño, cansado, se durmió."},
     {"stressed possessive after the noun", "Vino una amiga mía.", "Vino un amigo mío."},
     // Adjectives.
     {"apocope buen", "Es una buena amiga.", "Es un buen amigo."},
