@@ -37,8 +37,10 @@ enum class Gender : uint8_t { feminine, masculine };
 // How the pack's rules and data files are used (the README and rules/README.md say it for
 // users; the data files' headers give their line formats):
 // - Person words are the pack's sets that noun-phrase.data does not list as dependent. One is
-//   rewritten by its set; a set tagged @noun only right after a determiner (or a determiner
-//   and adjectives), since its forms are also verbs ("ella ama", "la reina").
+//   rewritten by its set; a set tagged @noun only after a determiner (or a determiner and
+//   adjectives) or right after a copula ("es médica"), since its forms are also verbs or
+//   adjectives ("ella ama", "atención médica"). Pronouns (`pronoun` sets) take no
+//   determiner or adjective before them.
 // - A common-gender noun of common-gender.data (el/la estudiante) is a person mention when a
 //   determiner before it shows the gender: the determiner's gender is the person's. The noun
 //   stays; its determiners and adjectives flip. Without such a determiner it is left alone.
@@ -46,17 +48,24 @@ enum class Gender : uint8_t { feminine, masculine };
 // - Around a rewritten person noun: the determiners before it (also chains: "todas las", and
 //   contractions: "de la" <-> "del"), adjectives between determiner and noun (inflected by the
 //   rules of adjectives.data, with apocope: "la buena amiga" -> "el buen amigo"), and
-//   adjectives after it that adjectives.data knows. An unknown word after the noun that would
-//   inflect ("la niña canta") is flagged "unsettled_adjective", not changed.
-// - Predicate: after a rewritten subject (noun phrase or pronoun), a copula of noun-phrase.data
-//   (adverbs may stand between) and adjectives or participles after it are inflected by rule.
+//   adjectives after it that adjectives.data knows. An unknown word after a noun with a
+//   determiner that would inflect ("la niña salta") is flagged "unsettled_adjective", not
+//   changed; a verb of noun-phrase.data ("canta") ends the phrase. A quantifier before "de"
+//   stands for the noun ("una de las chicas"); a demonstrative subject of a predicative noun
+//   follows it ("Esa es la tía").
+// - Predicate: after a rewritten subject (noun phrase or pronoun, not after a preposition),
+//   a copula of noun-phrase.data (adverbs may stand between; also past a "de" complement)
+//   and adjectives or participles after it are inflected by rule; a coordinated subject
+//   ("ella y su madre están") is flagged "unsettled_predicate".
 // - Stressed a (stressed-a.data; Real Academia Española, Diccionario panhispánico de dudas,
 //   entry "el", from memory): a feminine singular noun beginning with stressed a takes the
 //   masculine form of an article right before it ("el ama", "un ama", "del ama"); such an
 //   "el" is read as feminine.
 // - Clitics "la/las/lo/los" are rewritten when the nearest earlier noun phrase of the same
 //   gender and number is a rewritten person and the clitic stands before a verb of
-//   noun-phrase.data or one with an unmistakable verb ending, or after "no"/"se"/"ya"...
+//   noun-phrase.data or one with an unmistakable verb ending, or after "no"/"se"/"ya"...;
+//   when a phrase of no person came in between, the record is flagged "unsettled_clitic".
+// - Names (a pack with [names]) are swapped when capitalised, with no agreement.
 // - Every agreement edit has reason agreement and a note saying what agreed with what.
 class NounPhraseAgreement {
  public:
