@@ -20,6 +20,7 @@
 #include "pack/pack.h"
 #include "rewrite/article.h"
 #include "rewrite/engine.h"
+#include "rewrite/np_agreement.h"
 #include "rewrite/possessive.h"
 #include "rewrite/verb_agreement.h"
 #include "text/case.h"
@@ -146,6 +147,7 @@ class LexiconWorker final : public Worker {
   std::vector<std::string_view> words_;  // folded items for the possessive model
   std::string scratch_;
   std::vector<const pack::LexEntry*> cands_;  // entries matching at one position
+  std::vector<NpToken> np_tokens_;  // items for noun-phrase agreement (packs that have it)
 };
 
 class LexiconEngine final : public Engine {
@@ -153,11 +155,13 @@ class LexiconEngine final : public Engine {
   LexiconEngine(std::shared_ptr<const pack::CompiledPack> p,
                 std::unique_ptr<text::ProtectedSpans> ps,
                 std::shared_ptr<const PossessiveModel> model,
-                std::shared_ptr<const VerbTable> verbs, const EngineOptions& o)
+                std::shared_ptr<const VerbTable> verbs,
+                std::shared_ptr<const NounPhraseAgreement> np, const EngineOptions& o)
       : pack_(std::move(p)),
         protect_(std::move(ps)),
         model_(std::move(model)),
         verbs_(std::move(verbs)),
+        np_(std::move(np)),
         options_(o) {
     const auto& groups = pack_->groups();
     target_.resize(groups.size());
@@ -189,6 +193,7 @@ class LexiconEngine final : public Engine {
   std::unique_ptr<text::ProtectedSpans> protect_;
   std::shared_ptr<const PossessiveModel> model_;
   std::shared_ptr<const VerbTable> verbs_;
+  std::shared_ptr<const NounPhraseAgreement> np_;  // null unless the pack has noun-phrase.data
   EngineOptions options_;
   std::vector<uint16_t> target_;
   PhraseIndex guards_;
@@ -355,6 +360,17 @@ bool LexiconWorker::is_protected(uint32_t begin, uint32_t end) const {
 
 void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordResult& out,
                                   bool guarded) {
+  if (e_.np_) {
+    // Noun-phrase agreement (Spanish) takes the whole field: determiners and adjectives are
+    // rewritten only together with the person noun they agree with.
+    np_tokens_.clear();
+    for (size_t k = 0; k < items_.size(); ++k)
+      np_tokens_.push_back(
+          {items_[k].begin, items_[k].end, folded(k), items_[k].kind == text::TokenKind::word});
+    NounPhraseAgreement::Field f{field, text, np_tokens_, spans_, e_.target_, guarded};
+    e_.np_->rewrite_field(f, out);
+    return;
+  }
   const pack::CompiledPack& pk = *e_.pack_;
   for (size_t k = 0; k < items_.size(); ++k) {
     if (items_[k].kind != text::TokenKind::word) continue;
@@ -699,8 +715,14 @@ Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::Compiled
     if (!v.ok()) return std::move(v).error();
     verbs = std::move(*v);
   }
+  std::shared_ptr<const NounPhraseAgreement> np;
+  if (pack->file(kNounPhraseFile)) {
+    auto n = NounPhraseAgreement::from_pack(pack);
+    if (!n.ok()) return std::move(n).error();
+    np = std::move(*n);
+  }
   return std::unique_ptr<Engine>(std::make_unique<LexiconEngine>(
-      std::move(pack), std::move(*ps), std::move(model), std::move(verbs), options));
+      std::move(pack), std::move(*ps), std::move(model), std::move(verbs), std::move(np), options));
 }
 
 }  // namespace evenhand::rewrite

@@ -236,7 +236,8 @@ TEST_CASE("check reports every problem of a broken pack with file:line, and run 
   REQUIRE(r.out.find("words.txt:5") != std::string::npos);
   std::string in = d.file("in.jsonl");
   write_file(in, "{\"text\":\"she\"}\n");
-  auto run_r = run(d, "run --pack " + d.file("pack") + " --in " + in + " --out " + d.file("o.jsonl"));
+  auto run_r =
+      run(d, "run --pack " + d.file("pack") + " --in " + in + " --out " + d.file("o.jsonl"));
   REQUIRE(run_r.code == 5);
   REQUIRE(run_r.err.find("words.txt:") != std::string::npos);
   REQUIRE_FALSE(std::filesystem::exists(d.file("o.jsonl")));
@@ -247,10 +248,49 @@ TEST_CASE("check reports every problem of a broken pack with file:line, and run 
 
 TEST_CASE("run refuses a draft pack; check still validates it") {
   TempDir d;
+  std::filesystem::create_directories(d.file("pack"));
+  write_file(d.file("pack/pack.txt"),
+             "pack draft-test\nversion 0.1.0\nlanguage en\naxis gender\ngroups female male\n"
+             "meta status draft\n[sets]\nshe | he\n");
   std::string in = d.file("in.jsonl");
-  write_file(in, "{\"text\":\"la niña\"}\n");
-  auto r = run(d, "run --pack es-gender --in " + in + " --out " + d.file("o.jsonl"));
+  write_file(in, "{\"text\":\"she\"}\n");
+  auto r = run(d, "run --pack " + d.file("pack") + " --in " + in + " --out " + d.file("o.jsonl"));
   REQUIRE(r.code == 5);
   REQUIRE(r.err.find("draft") != std::string::npos);
-  REQUIRE(run(d, "check es-gender").code == 0);
+  REQUIRE_FALSE(std::filesystem::exists(d.file("o.jsonl")));
+  REQUIRE(run(d, "check " + d.file("pack")).code == 0);
+}
+
+TEST_CASE("run rewrites Spanish with noun-phrase agreement") {
+  // Expected outputs written by hand (Spanish agreement, Real Academia Española norms, from
+  // memory); the same rules as tests/rewrite/spanish_agreement_test.cpp, through the CLI.
+  TempDir d;
+  std::string in = d.file("in.jsonl");
+  write_file(in,
+             "{\"text\":\"La niña alta está cansada.\"}\n"
+             "{\"text\":\"La casa es bonita.\"}\n"
+             "{\"text\":\"El estudiante nuevo habló con la madre del novio.\"}\n"
+             "{\"text\":\"El amo nuevo llegó.\"}\n"
+             "{\"text\":\"La niña salta.\"}\n");
+  auto r = run(d, "run --pack es-gender --in " + in + " --out " + d.file("o.jsonl") + " --edits " +
+                      d.file("e.jsonl") + " --manifest " + d.file("m.json"));
+  INFO(r.err);
+  REQUIRE(r.code == 0);
+  std::string out = read_file(d.file("o.jsonl"));
+  CHECK(out ==
+        "{\"text\":\"La niña alta está cansada.\"}\n"
+        "{\"text\":\"El niño alto está cansado.\"}\n"
+        "{\"text\":\"La casa es bonita.\"}\n"
+        "{\"text\":\"El estudiante nuevo habló con la madre del novio.\"}\n"
+        "{\"text\":\"La estudiante nueva habló con el padre de la novia.\"}\n"
+        "{\"text\":\"El amo nuevo llegó.\"}\n"
+        "{\"text\":\"El ama nueva llegó.\"}\n"
+        // "salta" may be a verb or an adjective: flagged, so only the original is written.
+        "{\"text\":\"La niña salta.\"}\n");
+  std::string edits = read_file(d.file("e.jsonl"));
+  CHECK(edits.find("\"why\":\"agreement\",\"note\":\"determiner agrees with 'niña' -> 'niño'\"") !=
+        std::string::npos);
+  CHECK(edits.find("unsettled_adjective") != std::string::npos);
+  std::string manifest = read_file(d.file("m.json"));
+  CHECK(manifest.find("\"unsettled_adjective\": 1") != std::string::npos);
 }

@@ -119,7 +119,7 @@ TEST_CASE("the es-gender pack is built in and loads with no diagnostics", "[pack
   CHECK(std::find(names.begin(), names.end(), "es-gender") != names.end());
   auto p = spanish();
   CHECK(p->name() == "es-gender");
-  CHECK(p->version() == "0.1.0");
+  CHECK(p->version() == "0.2.0");
   CHECK(p->language() == "es");
   CHECK(p->axis() == "gender");
   CHECK(p->groups() == std::vector<std::string>{"female", "male"});
@@ -132,7 +132,7 @@ TEST_CASE("the es-gender pack is built in and loads with no diagnostics", "[pack
   // The data files for the engine's agreement travel with the pack.
   auto files = p->file_names();
   for (const char* f : {"pack.txt", "words.txt", "protect.txt", "guards.txt", "common-gender.data",
-                        "adjectives.data", "stressed-a.data"})
+                        "adjectives.data", "stressed-a.data", "noun-phrase.data"})
     CHECK(std::find(files.begin(), files.end(), f) != files.end());
 }
 
@@ -231,6 +231,11 @@ TEST_CASE("the es-gender data files are well formed and consistent", "[pack][spa
       REQUIRE(f.size() == 4);
       CHECK((f[3] == "m" || f[3] == "mf"));
       ++apocopes;
+    } else if (f[0] == "adj") {
+      CHECK(f.size() >= 2);
+      for (size_t i = 1; i < f.size(); ++i) CHECK(ends_with(f[i], "o"));
+    } else if (f[0] == "invariable") {
+      CHECK(f.size() == 2);
     } else {
       FAIL("unknown line kind " << f[0]);
     }
@@ -267,8 +272,11 @@ TEST_CASE("the es-gender data files are well formed and consistent", "[pack][spa
     CHECK(starts_a);
     if (f[0] == "noun") {
       CHECK(ends_with(f[2], "s"));
-      // A feminine noun of the rule is not a set form: it has no male counterpart.
-      CHECK(p->lookup(w) == nullptr);
+      // A feminine noun of the rule is a set form only as the female form of a person noun
+      // ("ama | amo"): it is never a male form.
+      if (const auto* entries = p->lookup(w)) {
+        for (const auto& e : *entries) CHECK(p->groups()[e.group] == "female");
+      }
       ++stressed;
     } else {
       CHECK(f[0] == "exception");
@@ -320,9 +328,22 @@ TEST_CASE("every word of the es-gender data files is in the hunspell es_ES dicti
   for (const auto& f : data_lines(data_file(*p, "common-gender.data")))
     words.insert(f.begin() + 1, f.end());
   for (const auto& f : data_lines(data_file(*p, "adjectives.data"))) {
-    if (f[0] == "rule") continue;  // endings, not words
+    if (f[0] == "rule" || f[0] == "invariable") continue;  // endings, not words
     size_t last = f[0] == "apocope" ? 3 : f.size();
     words.insert(f.begin() + 1, f.begin() + last);
+  }
+  // noun-phrase.data: the word lists and the forms of the sets it names.
+  for (const auto& f : data_lines(data_file(*p, "noun-phrase.data"))) {
+    if (f[0] == "genders") continue;
+    for (size_t i = 1; i < f.size(); ++i) {
+      std::string w = f[i];
+      if (w == "-") continue;
+      for (size_t u; (u = w.find('_')) != std::string::npos;) {
+        words.insert(w.substr(0, u));
+        w = w.substr(u + 1);
+      }
+      words.insert(w);
+    }
   }
   for (const auto& f : data_lines(data_file(*p, "stressed-a.data"))) {
     words.insert(f[1]);
