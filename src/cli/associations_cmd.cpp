@@ -27,7 +27,7 @@ int associations_command(const std::vector<std::string>& args) {
     ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
     ("targets", po::value(&targets_path), "target word list (default: the pack's targets.data)")
     ("window", po::value(&ao.window), "context: words on either side of a group word (default 10)")
-    ("prior", po::value(&ao.prior), "alpha_0, total weight of the Dirichlet prior (default 1000)")
+    ("prior", po::value(&ao.prior), "alpha_0, total weight of the Dirichlet prior (default 100)")
     ("permutations", po::value(&ao.permutations), "permutation test draws (default 999; 0: none)")
     ("seed", po::value(&ao.seed), "seed of the permutation test (default 0)")
     ("out", po::value(&out), "write the JSON here ('-' is stdout)");

@@ -32,7 +32,7 @@ Result<TargetList> parse_targets(std::string_view text, const std::string& sourc
 
 struct AssociationOptions {
   size_t window = 10;           // words on either side of a group word that are its context
-  double prior = 1000;          // alpha_0, the prior's total count (see README)
+  double prior = 100;           // alpha_0, the prior's total count (see README)
   uint32_t permutations = 999;  // permutation test draws; 0: no test
   uint64_t seed = 0;
 };

@@ -183,6 +183,7 @@ std::string render_terminal(const ReviewRecord& r, const TerminalStyle& style) {
       for (const auto& line : wrap(cells, width - 4)) {
         out += "    ";
         draw(line, style.color, 0, out);
+        while (!out.empty() && out.back() == ' ') out.pop_back();
         out += '\n';
       }
     } else {

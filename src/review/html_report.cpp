@@ -184,10 +184,20 @@ struct HRow {
   double value = 0;
 };
 
+// `s` cut to at most `n` code points, with an ellipsis when cut.
+std::string clip(const std::string& s, size_t n) {
+  size_t cps = 0;
+  for (size_t i = 0; i < s.size(); ++i) {
+    if ((static_cast<unsigned char>(s[i]) & 0xC0) == 0x80) continue;
+    if (++cps > n) return s.substr(0, i) + "\u2026";
+  }
+  return s;
+}
+
 // Horizontal bars, one row each, longest first as given.
 std::string hbars(const std::string& id, const std::string& title, const std::vector<HRow>& rows,
                   const std::string& color, const std::string& empty_note) {
-  const double W = 940, L = 260, R = 70, row_h = 22, T = 30;
+  const double W = 940, L = 330, R = 70, row_h = 22, T = 30;
   double H = T + std::max<size_t>(rows.size(), 1) * row_h + 10;
   double max = 0;
   for (const auto& r : rows) max = std::max(max, r.value);
@@ -204,7 +214,7 @@ std::string hbars(const std::string& id, const std::string& title, const std::ve
     double y = T + i * row_h;
     double w = max > 0 ? rows[i].value / max * (W - L - R) : 0;
     s += "<text class=\"cat\" x=\"" + fmt(L - 8) + "\" y=\"" + fmt(y + 15) +
-         "\" text-anchor=\"end\">" + esc(rows[i].label);
+         "\" text-anchor=\"end\">" + esc(clip(rows[i].label, 36));
     if (!rows[i].note.empty()) s += " <tspan class=\"note\">" + esc(rows[i].note) + "</tspan>";
     s += "</text>";
     s += "<rect class=\"bar after\" x=\"" + fmt(L) + "\" y=\"" + fmt(y + 3) + "\" width=\"" +
