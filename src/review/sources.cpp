@@ -116,7 +116,7 @@ Status attach_sources(std::vector<ReviewRecord*>& records, const CorpusLayout& l
             simdjson::dom::element doc;
             std::string_view sv;
             if (parser.parse(raw.bytes.data(), raw.bytes.size()).get(doc)) {
-              fail("invalid JSON where the audit log expects a rewritten record");
+              fail("not a JSON record (is the corpus plain text?)");
               break;
             }
             if (doc.at_pointer(p).get_string().get(sv)) {
