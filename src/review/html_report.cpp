@@ -422,10 +422,11 @@ std::string render_report(const ReportInput& in) {
     planned = planned || g.planned.has_value();
   }
   std::vector<Series> sm = {bm}, sr = {br};
-  if (planned) {
-    sm.push_back(pm);
-    sr.push_back(pr);
-  }
+  auto any = [](const Series& x) {
+    return std::any_of(x.values.begin(), x.values.end(), [](double v) { return v == v; });
+  };
+  if (any(pm)) sm.push_back(pm);  // a plan has one basis: its series goes on that chart only
+  if (any(pr)) sr.push_back(pr);
   sm.push_back(am);
   sr.push_back(ar);
   h += "<section id=\"groups\"><h2>Groups before and after<small>axis " + esc(m.axis) +

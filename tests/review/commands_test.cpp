@@ -177,6 +177,26 @@ TEST_CASE("report: a self-contained page, written all or nothing") {
   CHECK(self.code == kUsage);
 }
 
+TEST_CASE("report: a balance run shows the planned counts on its basis's chart") {
+  TempDir d;
+  std::string in = evenhand::testing::source_dir() + "/samples/helpdesk.jsonl";
+  REQUIRE(run(d, "run --pack en-gender --in " + in +
+                     " --field /text --field '/messages/*/content' --mode balance --target "
+                     "female=1,male=1 --out " +
+                     d.file("b.jsonl") + " --manifest " + d.file("m.json") + " --quiet")
+              .code == 0);
+  REQUIRE(run(d, "report --manifest " + d.file("m.json") + " --out " + d.file("r.html")).code == 0);
+  std::string page = read_file(d.file("r.html"));
+  size_t mentions = page.find("id=\"chart-groups-mentions\"");
+  size_t records = page.find("id=\"chart-groups-records\"");
+  REQUIRE(mentions < records);
+  std::string m_chart = page.substr(mentions, records - mentions);
+  std::string r_chart = page.substr(records, page.find("</svg>", records) - records);
+  CHECK(m_chart.find("class=\"bar planned\" data-series=\"planned\"") != std::string::npos);
+  CHECK(r_chart.find("planned") == std::string::npos);  // --basis mentions: no planned records
+  CHECK(page.find("No audit log was given") != std::string::npos);
+}
+
 TEST_CASE("report: the cautions are the README's, word for word") {
   std::string readme = read_file(evenhand::testing::source_dir() + "/README.md");
   size_t start = readme.find("## Cautions\n");
