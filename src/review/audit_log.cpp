@@ -2,8 +2,7 @@
 
 #include <simdjson.h>
 
-#include "corpus/records.h"
-#include "io/source.h"
+#include "review/sources.h"
 
 namespace evenhand::review {
 
@@ -44,22 +43,12 @@ Result<LoggedEdit> parse_edit(element e) {
 }  // namespace
 
 Result<std::vector<ReviewRecord>> read_audit_log(const std::string& path) {
-  auto src = io::Source::open(path);
-  if (!src.ok()) return std::move(src).error();
-  corpus::RecordReader reader(**src, corpus::Framing::lines, 64u << 20);
   simdjson::dom::parser parser;
   std::vector<ReviewRecord> out;
-  corpus::RawRecord raw;
-  for (;;) {
-    auto kind = reader.next(raw);
-    if (!kind.ok()) return std::move(kind).error();
-    if (*kind == corpus::RecordReader::Kind::end) break;
-    auto fail = [&](const std::string& why) {
-      Error e = make_error(ErrorKind::input, path, why);
-      e.line = raw.line;
-      return e;
-    };
-    if (*kind == corpus::RecordReader::Kind::oversized) return fail("audit line over 64 MiB");
+  CorpusLayout lines;
+  lines.max_record_bytes = 64u << 20;
+  auto read = for_each_record(path, lines, [&](const corpus::RawRecord& raw) -> Result<bool> {
+    auto fail = [](const std::string& why) { return make_error(ErrorKind::input, "", why); };
     element doc;
     if (auto err = parser.parse(raw.bytes.data(), raw.bytes.size()).get(doc))
       return fail(std::string("invalid JSON: ") + simdjson::error_message(err));
@@ -106,7 +95,9 @@ Result<std::vector<ReviewRecord>> read_audit_log(const std::string& path) {
     } else {
       return fail("unknown action '" + action + "'");
     }
-  }
+    return true;
+  });
+  if (!read.ok()) return std::move(read).error();
   return out;
 }
 

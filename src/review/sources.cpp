@@ -16,8 +16,9 @@ std::string resolve_input(const std::string& input, const CorpusLayout& layout) 
   return (std::filesystem::path(layout.root) / input).string();
 }
 
-Status for_each_record(const std::string& path, const CorpusLayout& layout,
-                       const std::function<bool(const corpus::RawRecord&)>& fn) {
+Result<std::string> for_each_record(
+    const std::string& path, const CorpusLayout& layout,
+    const std::function<Result<bool>(const corpus::RawRecord&)>& fn) {
   auto src = io::Source::open(path);
   if (!src.ok()) return std::move(src).error();
   corpus::RecordReader reader(**src, layout.framing, layout.max_record_bytes);
@@ -25,14 +26,21 @@ Status for_each_record(const std::string& path, const CorpusLayout& layout,
   for (;;) {
     auto kind = reader.next(raw);
     if (!kind.ok()) return std::move(kind).error();
-    if (*kind == corpus::RecordReader::Kind::end) return ok_status();
+    if (*kind == corpus::RecordReader::Kind::end) return (*src)->raw_sha256();
+    Result<bool> more = true;
     if (*kind == corpus::RecordReader::Kind::oversized) {
-      Error e = make_error(ErrorKind::input, path,
-                           "record of " + std::to_string(raw.size) + " bytes is over the limit");
-      e.line = raw.line;
+      more = make_error(ErrorKind::input, "",
+                        "record of " + std::to_string(raw.size) + " bytes is over the limit");
+    } else {
+      more = fn(raw);
+    }
+    if (!more.ok()) {
+      Error e = std::move(more).error();
+      if (e.file.empty()) e.file = path;
+      if (!e.line) e.line = raw.line;
       return e;
     }
-    if (!fn(raw)) return ok_status();
+    if (!*more) return std::string();
   }
 }
 
@@ -48,36 +56,22 @@ Result<std::string> for_each_fields(
   corpus::FieldSelector selector(std::move(parsed));
   std::vector<corpus::FieldMatch> matches;
   std::vector<std::string_view> fields;
-  auto src = io::Source::open(path);
-  if (!src.ok()) return std::move(src).error();
-  corpus::RecordReader reader(**src, layout.framing, layout.max_record_bytes);
-  corpus::RawRecord raw;
-  for (;;) {
-    auto kind = reader.next(raw);
-    if (!kind.ok()) return std::move(kind).error();
-    if (*kind == corpus::RecordReader::Kind::end) break;
-    auto fail = [&](const std::string& why) {
-      Error e = make_error(ErrorKind::input, path, why);
-      e.line = raw.line;
-      return e;
-    };
-    if (*kind == corpus::RecordReader::Kind::oversized)
-      return fail("record of " + std::to_string(raw.size) + " bytes is over the limit");
+  return for_each_record(path, layout, [&](const corpus::RawRecord& raw) -> Result<bool> {
     fields.clear();
     if (layout.format == CorpusFormat::text) {
       if (!simdjson::validate_utf8(raw.bytes.data(), raw.bytes.size()))
-        return fail("invalid UTF-8 in text record");
+        return make_error(ErrorKind::input, "", "invalid UTF-8 in text record");
       fields.push_back(raw.bytes);
     } else {
       corpus::SelectStats ss;
       Status s = selector.select(raw.bytes, matches, ss);
-      if (!s.ok()) return fail(s.error().reason);
+      if (!s.ok()) return std::move(s).error();
       for (const auto& m : matches)
         if (m.is_string) fields.push_back(m.text);
     }
     fn(fields);
-  }
-  return (*src)->raw_sha256();
+    return true;
+  });
 }
 
 Status attach_sources(std::vector<ReviewRecord*>& records, const CorpusLayout& layout) {
@@ -93,7 +87,7 @@ Status attach_sources(std::vector<ReviewRecord*>& records, const CorpusLayout& l
     std::string path = resolve_input(input, layout);
     Status failed = ok_status();
     uint64_t last = by_line.rbegin()->first;
-    Status s = for_each_record(path, layout, [&](const corpus::RawRecord& raw) {
+    auto s = for_each_record(path, layout, [&](const corpus::RawRecord& raw) -> Result<bool> {
       auto [lo, hi] = by_line.equal_range(raw.line);
       for (auto it = lo; it != hi && failed.ok(); ++it) {
         ReviewRecord& r = *it->second;
@@ -142,7 +136,7 @@ Status attach_sources(std::vector<ReviewRecord*>& records, const CorpusLayout& l
       }
       return failed.ok() && raw.line < last;
     });
-    if (!s.ok()) return s;
+    if (!s.ok()) return std::move(s).error();
     if (!failed.ok()) return failed;
     for (auto& [line, r] : by_line) {
       if (r->raw.empty() && r->fields.empty()) {

@@ -26,10 +26,13 @@ struct CorpusLayout {
   std::string root;
 };
 
-// Calls `fn(record)` for every record of `path` in order; stops early when it returns false.
+// Calls `fn(record)` for every record of `path` in order. `fn` returns true to go on, false
+// to stop, or an Error whose file and line, when empty, are filled in with this record's.
+// Returns the hex SHA-256 of the file's bytes when it was read to its end (else empty).
 // Errors from the source pass through; an oversized record is an Error naming its line.
-Status for_each_record(const std::string& path, const CorpusLayout& layout,
-                       const std::function<bool(const corpus::RawRecord&)>& fn);
+Result<std::string> for_each_record(
+    const std::string& path, const CorpusLayout& layout,
+    const std::function<Result<bool>(const corpus::RawRecord&)>& fn);
 
 // Calls `fn(fields)` with the selected string fields of every record of `path` (JSONL: the
 // values `patterns` match; text: the whole record). Returns the hex SHA-256 of the file's
