@@ -7,6 +7,7 @@
 #include <map>
 #include <random>
 #include <set>
+#include <unordered_map>
 
 #include "audit/json_writer.h"
 #include "evenhand/version.h"
@@ -74,7 +75,11 @@ std::string_view strip_clitic(std::string_view folded) {
 struct CooccurrenceCounter::Impl {
   std::shared_ptr<const pack::CompiledPack> pack;
   size_t window;
-  std::map<std::string, uint32_t, std::less<>> target_of;  // folded variant -> target
+  struct Hash {
+    using is_transparent = void;
+    size_t operator()(std::string_view v) const { return std::hash<std::string_view>{}(v); }
+  };
+  std::unordered_map<std::string, uint32_t, Hash, std::equal_to<>> target_of;  // variant -> target
   CooccurrenceCounts counts;
   text::Tokenizer tokenizer;
   std::vector<text::Token> tokens;
