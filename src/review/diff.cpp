@@ -161,13 +161,20 @@ std::string render_terminal(const ReviewRecord& r, const TerminalStyle& style) {
   out += '\n';
   size_t width = std::max<size_t>(style.width, 20);
   if (r.fields.empty() && !r.raw.empty()) {
+    // A record without edits is shown as read, up to kRawShown bytes (cut at a character).
+    const size_t kRawShown = 2000;
+    size_t cut = std::min(r.raw.size(), kRawShown);
+    while (cut < r.raw.size() && (static_cast<unsigned char>(r.raw[cut]) & 0xC0) == 0x80) --cut;
     std::vector<Cell> cells;
-    to_cells({{Piece::same, r.raw, nullptr}}, false, false, true, cells);
+    to_cells({{Piece::same, std::string_view(r.raw).substr(0, cut), nullptr}}, false, false, true,
+             cells);
     for (const auto& line : wrap(cells, width - 2)) {
       out += "  ";
       draw(line, false, 0, out);
       out += '\n';
     }
+    if (cut < r.raw.size())
+      out += "  ... (" + std::to_string(r.raw.size() - cut) + " more bytes)\n";
   }
   for (const auto& f : r.fields) {
     if (!f.pointer.empty()) {

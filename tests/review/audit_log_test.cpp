@@ -147,6 +147,15 @@ TEST_CASE("terminal drawing: brackets without colour, ANSI with it, two columns"
     if (!rule_line) CHECK(nl - start <= 40);
   }
   CHECK(w.find(std::string(36, '.')) != std::string::npos);
+  // A record without edits (guarded) is shown as read, long ones cut.
+  review::ReviewRecord g;
+  g.input = "c.jsonl";
+  g.line = 2;
+  g.guard = "medical";
+  g.raw = "{\"text\": \"" + std::string(3000, 'x') + "\"}";
+  std::string gt = review::render_terminal(g, plain);
+  CHECK(gt.find("guarded (medical") != std::string::npos);
+  CHECK(gt.find("... (1012 more bytes)") != std::string::npos);  // 3012 bytes, 2000 shown
 }
 
 TEST_CASE("applying the demo run's logged edits gives exactly its counterfactuals") {
