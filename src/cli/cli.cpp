@@ -22,6 +22,9 @@ const char* kUsageText =
     "  tally       count group mentions and what a counterfactual would change, per record kind\n"
     "  plan        turn tallies and a target mix into a rebalancing plan\n"
     "  merge-manifests  add up the manifests of shard runs into one\n"
+    "  review      show the edits of an audit log against the corpus, filtered or sampled\n"
+    "  report      write a self-contained HTML report of a run (manifest, audit log)\n"
+    "  associations  measure how target words co-occur with each group, before and after\n"
     "  check       validate a rule pack and report every problem with file:line\n"
     "  packs       list the rule packs built into this binary\n"
     "  pair-names  pair first names of equal frequency rank into a pack's [names] section\n"
@@ -56,6 +59,9 @@ int main(int argc, char** argv) {
     if (cmd == "tally") return tally_command(rest);
     if (cmd == "plan") return plan_command(rest);
     if (cmd == "merge-manifests") return merge_manifests_command(rest);
+    if (cmd == "review") return review_command(rest);
+    if (cmd == "report") return report_command(rest);
+    if (cmd == "associations") return associations_command(rest);
     if (cmd == "packs") return packs_command(rest);
     if (cmd == "pair-names") return pair_names_command(rest);
     print_error("unknown command '" + cmd + "' (see 'evenhand --help')");

@@ -39,5 +39,8 @@ int pair_names_command(const std::vector<std::string>& args);
 int tally_command(const std::vector<std::string>& args);
 int plan_command(const std::vector<std::string>& args);
 int merge_manifests_command(const std::vector<std::string>& args);
+int review_command(const std::vector<std::string>& args);
+int report_command(const std::vector<std::string>& args);
+int associations_command(const std::vector<std::string>& args);
 
 }  // namespace evenhand::cli

@@ -1,0 +1,115 @@
+// `evenhand associations`: measures how strongly each target word co-occurs with each
+// group's words in a corpus and, with --after, in its augmented output; writes JSON
+// (schema evenhand.associations/1) that `report --associations` shows.
+#include "cli/cli.h"
+#include "cli/common.h"
+#include "cli/review_args.h"
+#include "io/source.h"
+#include "review/associations.h"
+#include "review/sources.h"
+
+namespace evenhand::cli {
+
+int associations_command(const std::vector<std::string>& args) {
+  po::options_description opts("Options");
+  std::string pack_name, targets_path, out, format;
+  std::vector<std::string> before, after, fields;
+  bool paragraphs = false;
+  review::AssociationOptions ao;
+  // clang-format off
+  opts.add_options()
+    ("help,h", "show this help")
+    ("pack", po::value(&pack_name), "rule pack whose groups are measured (built-in name or directory)")
+    ("in", po::value(&before)->composing(), "the corpus before augmentation; repeatable")
+    ("after", po::value(&after)->composing(), "the augmented corpus; repeatable (optional)")
+    ("field", po::value(&fields)->composing(), "JSON Pointer of a field to read (with '*'); repeatable; default /text")
+    ("format", po::value(&format), "jsonl (default) or text")
+    ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
+    ("targets", po::value(&targets_path), "target word list (default: the pack's targets.data)")
+    ("window", po::value(&ao.window), "context: words on either side of a group word (default 10)")
+    ("prior", po::value(&ao.prior), "alpha_0, total weight of the Dirichlet prior (default 100)")
+    ("permutations", po::value(&ao.permutations), "permutation test draws (default 999; 0: none)")
+    ("seed", po::value(&ao.seed), "seed of the permutation test (default 0)")
+    ("out", po::value(&out), "write the JSON here ('-' is stdout)");
+  // clang-format on
+  po::variables_map vm;
+  int rc =
+      parse_args("associations", "--pack PACK --in CORPUS [--after AUGMENTED] --out ASSOC.json",
+                 opts, args, vm);
+  if (rc >= 0) return rc;
+  if (pack_name.empty() || before.empty() || out.empty()) {
+    print_error("associations: give --pack, --in and --out");
+    return kUsage;
+  }
+  if (ao.window == 0 || !(ao.prior > 0)) {
+    print_error("associations: --window must be at least 1 and --prior above 0");
+    return kUsage;
+  }
+  if (fields.empty()) fields = {"/text"};
+  review::CorpusLayout layout;
+  rc = corpus_layout("associations", nullptr, format, paragraphs, "", layout);
+  if (rc >= 0) return rc;
+  std::vector<pack::Diagnostic> diags;
+  auto pk = pack::load_pack(pack_name, diags);
+  if (!pk.ok()) return report(pk.error());
+  std::shared_ptr<const pack::CompiledPack> pack = *pk;
+
+  std::string list_text, source;
+  if (targets_path.empty()) {
+    const std::string* f = pack->file("targets.data");
+    if (!f) {
+      print_error("associations: pack '" + pack->name() +
+                  "' ships no targets.data; give --targets FILE");
+      return kUsage;
+    }
+    list_text = *f;
+    source = pack->name() + ":targets.data";
+  } else {
+    auto src = io::Source::open(targets_path);
+    if (!src.ok()) return report(src.error());
+    char buf[65536];
+    for (;;) {
+      auto n = (*src)->read(buf, sizeof buf);
+      if (!n.ok()) return report(n.error());
+      if (*n == 0) break;
+      list_text.append(buf, *n);
+    }
+    source = targets_path;
+  }
+  auto targets = review::parse_targets(list_text, source);
+  if (!targets.ok()) return report(targets.error());
+
+  review::AssociationReport rep;
+  rep.pack_name = pack->name();
+  rep.pack_version = pack->version();
+  rep.pack_sha256 = pack->sha256();
+  rep.axis = pack->axis();
+  rep.groups = pack->groups();
+  rep.targets = *targets;
+  rep.options = ao;
+  for (int which = 0; which < 2; ++which) {
+    const auto& paths = which == 0 ? before : after;
+    if (paths.empty()) continue;
+    review::CooccurrenceCounter counter(pack, rep.targets, ao.window);
+    std::vector<std::pair<std::string, std::string>> inputs;
+    for (const auto& p : paths) {
+      if (p == out) {
+        print_error("associations: --out names an input: " + p);
+        return kUsage;
+      }
+      auto sha = review::for_each_fields(
+          p, layout, fields, [&](std::span<const std::string_view> f) { counter.add_record(f); });
+      if (!sha.ok()) return report(sha.error());
+      inputs.emplace_back(p, *sha);
+    }
+    auto ca = review::compute_associations(counter.counts(), ao);
+    ca.label = which == 0 ? "before" : "after";
+    ca.inputs = std::move(inputs);
+    rep.corpora.push_back(std::move(ca));
+  }
+  Status s = write_file_atomic(out, review::render_associations(rep));
+  if (!s.ok()) return report(s.error());
+  return kOk;
+}
+
+}  // namespace evenhand::cli

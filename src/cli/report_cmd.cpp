@@ -1,0 +1,123 @@
+// `evenhand report`: writes one self-contained HTML page about a run from its manifest and,
+// optionally, its audit log (a sample of diffs, guarded and flagged records) and an
+// association audit. The page appears under its final name only when complete.
+#include <fstream>
+#include <sstream>
+
+#include "base/sha256.h"
+#include "cli/cli.h"
+#include "cli/common.h"
+#include "cli/review_args.h"
+#include "review/associations.h"
+#include "review/audit_log.h"
+#include "review/html_report.h"
+#include "review/select.h"
+
+namespace evenhand::cli {
+
+namespace {
+
+// SHA-256 and size of a file the report read, for its "Inputs and outputs" table.
+Result<review::ReportFile> describe(const std::string& role, const std::string& path) {
+  std::ifstream f(path, std::ios::binary);
+  if (!f) return make_error(ErrorKind::input, path, "cannot read");
+  std::stringstream ss;
+  ss << f.rdbuf();
+  std::string bytes = ss.str();
+  return review::ReportFile{role, path, sha256_hex(bytes), bytes.size()};
+}
+
+}  // namespace
+
+int report_command(const std::vector<std::string>& args) {
+  po::options_description opts("Options");
+  std::string manifest, edits, assoc, out, format, root;
+  bool paragraphs = false;
+  size_t sample = 12;
+  uint64_t seed = 0;
+  // clang-format off
+  opts.add_options()
+    ("help,h", "show this help")
+    ("manifest", po::value(&manifest), "the run's manifest (required)")
+    ("edits", po::value(&edits), "the run's audit log: adds a sample of diffs, guarded and flagged records")
+    ("associations", po::value(&assoc), "an 'evenhand associations' result to show")
+    ("out", po::value(&out), "write the HTML page here (required)")
+    ("sample", po::value(&sample), "rewritten records to show, spread across pack entries (default 12)")
+    ("seed", po::value(&seed), "seed of the sample (default 0)")
+    ("format", po::value(&format), "corpus format jsonl|text (default: the manifest's)")
+    ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
+    ("root", po::value(&root), "read relative input paths of the audit log from this directory");
+  // clang-format on
+  po::variables_map vm;
+  int rc =
+      parse_args("report", "--manifest PATH [--edits PATH] [--associations PATH] --out FILE.html",
+                 opts, args, vm);
+  if (rc >= 0) return rc;
+  if (manifest.empty() || out.empty()) {
+    print_error("report: give --manifest and --out");
+    return kUsage;
+  }
+  for (const auto& in : {manifest, edits, assoc}) {
+    if (!in.empty() && in == out) {
+      print_error("report: --out names an input: " + out);
+      return kUsage;
+    }
+  }
+  auto m = review::read_manifest(manifest);
+  if (!m.ok()) return report(m.error());
+  review::CorpusLayout layout;
+  rc = corpus_layout("report", &*m, format, paragraphs, root, layout);
+  if (rc >= 0) return rc;
+
+  review::ReportInput in;
+  in.manifest = &*m;
+  in.cautions = review::report_cautions();
+  auto add_read = [&](const std::string& role, const std::string& path) -> Status {
+    auto d = describe(role, path);
+    if (!d.ok()) return std::move(d).error();
+    in.read.push_back(*d);
+    return ok_status();
+  };
+  Status s = add_read("report input: manifest", manifest);
+  if (!s.ok()) return report(s.error());
+
+  std::vector<review::ReviewRecord> records;
+  if (!edits.empty()) {
+    auto log = review::read_audit_log(edits);
+    if (!log.ok()) return report(log.error());
+    records = std::move(*log);
+    s = add_read("report input: audit log", edits);
+    if (!s.ok()) return report(s.error());
+    std::vector<size_t> rewritten;
+    for (size_t i = 0; i < records.size(); ++i) {
+      if (!records[i].edits.empty()) rewritten.push_back(i);
+      if (!records[i].guard.empty()) in.guarded.push_back(&records[i]);
+      if (!records[i].flags.empty()) in.flagged.push_back(&records[i]);
+    }
+    in.sample_from = rewritten.size();
+    std::vector<review::ReviewRecord*> chosen;
+    for (size_t i : review::stratified_sample(records, rewritten, sample, seed))
+      chosen.push_back(&records[i]);
+    s = review::attach_sources(chosen, layout);
+    if (!s.ok()) return report(s.error());
+    in.sample.assign(chosen.begin(), chosen.end());
+  }
+  std::optional<review::AssociationReport> ar;
+  if (!assoc.empty()) {
+    auto a = review::read_associations(assoc);
+    if (!a.ok()) return report(a.error());
+    ar = std::move(*a);
+    if (!m->pack_sha256.empty() && ar->pack_sha256 != m->pack_sha256) {
+      return report(make_error(ErrorKind::input, assoc,
+                               "measured with another pack than the manifest's (sha256 differs)"));
+    }
+    in.associations = &*ar;
+    s = add_read("report input: associations", assoc);
+    if (!s.ok()) return report(s.error());
+  }
+  s = write_file_atomic(out, review::render_report(in));
+  if (!s.ok()) return report(s.error());
+  return kOk;
+}
+
+}  // namespace evenhand::cli

@@ -1,0 +1,139 @@
+// `evenhand review`: shows the records an audit log talks about, with their edits drawn
+// against the corpus text, filtered and optionally sampled. Colour only on a terminal.
+#include <sys/ioctl.h>
+#include <unistd.h>
+
+#include <cstdlib>
+#include <iostream>
+
+#include "cli/cli.h"
+#include "cli/common.h"
+#include "cli/review_args.h"
+#include "review/audit_log.h"
+#include "review/diff.h"
+#include "review/manifest_view.h"
+#include "review/select.h"
+#include "review/sources.h"
+
+namespace evenhand::cli {
+
+namespace {
+
+size_t terminal_width(bool tty) {
+  if (const char* c = std::getenv("COLUMNS")) {
+    long v = std::strtol(c, nullptr, 10);
+    if (v >= 20) return static_cast<size_t>(v);
+  }
+  winsize ws{};
+  if (tty && ioctl(STDOUT_FILENO, TIOCGWINSZ, &ws) == 0 && ws.ws_col >= 20) return ws.ws_col;
+  return 100;
+}
+
+}  // namespace
+
+int corpus_layout(const std::string& command, const review::ManifestView* m,
+                  const std::string& format, bool paragraphs, const std::string& root,
+                  review::CorpusLayout& layout) {
+  std::string f = !format.empty() ? format : (m && !m->format.empty() ? m->format : "jsonl");
+  if (f != "jsonl" && f != "text") {
+    print_error(command + ": --format must be jsonl or text");
+    return kUsage;
+  }
+  layout.format = f == "text" ? review::CorpusFormat::text : review::CorpusFormat::jsonl;
+  bool para = paragraphs || (m && m->paragraphs && format.empty());
+  if (para && layout.format != review::CorpusFormat::text) {
+    print_error(command + ": --paragraphs needs --format text");
+    return kUsage;
+  }
+  layout.framing = para ? corpus::Framing::paragraphs : corpus::Framing::lines;
+  layout.root = root;
+  return -1;
+}
+
+int review_command(const std::vector<std::string>& args) {
+  po::options_description opts("Options");
+  std::string edits, manifest, format, root, layout_name = "inline", color = "auto";
+  bool paragraphs = false, no_rules = false;
+  size_t sample = 0, width = 0;
+  uint64_t seed = 0;
+  review::Filter filter;
+  // clang-format off
+  opts.add_options()
+    ("help,h", "show this help")
+    ("edits", po::value(&edits), "the audit log to review (run --edits); also positional")
+    ("manifest", po::value(&manifest), "the run's manifest: corpus format and framing from it")
+    ("format", po::value(&format), "corpus format jsonl|text (default: the manifest's, else jsonl)")
+    ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
+    ("root", po::value(&root), "read relative input paths of the log from this directory")
+    ("rule", po::value(&filter.rules)->composing(), "only records with an edit by this pack entry (words.txt:67); repeatable")
+    ("why", po::value(&filter.whys)->composing(), "only records with an edit of this reason: lexicon|name|context|agreement; repeatable")
+    ("field", po::value(&filter.fields)->composing(), "only records with an edit in this field (JSON Pointer as logged); repeatable")
+    ("flag", po::value(&filter.flags)->composing(), "only flagged records with this code ('any': all flagged); repeatable")
+    ("guard", po::value(&filter.guards)->composing(), "only guarded records with this reason ('any': all guarded); repeatable")
+    ("sample", po::value(&sample), "show N records, sampled evenly across pack entries (0: all)")
+    ("seed", po::value(&seed), "seed of the sample (default 0)")
+    ("layout", po::value(&layout_name), "inline (default) or columns: original | counterfactual")
+    ("color", po::value(&color), "auto (default: on a terminal unless NO_COLOR is set), always, never")
+    ("width", po::value(&width), "line width (default: the terminal's, $COLUMNS, else 100)")
+    ("no-rules", po::bool_switch(&no_rules), "do not list the edits and their rules under each record");
+  // clang-format on
+  po::positional_options_description pos;
+  pos.add("edits", 1);
+  po::variables_map vm;
+  int rc = parse_args("review", "EDITS.jsonl [--manifest M.json] [filters] [--sample N]", opts,
+                      args, vm, &pos);
+  if (rc >= 0) return rc;
+  if (edits.empty()) {
+    print_error("review: give the audit log (--edits PATH)");
+    return kUsage;
+  }
+  if (layout_name != "inline" && layout_name != "columns") {
+    print_error("review: --layout must be inline or columns");
+    return kUsage;
+  }
+  if (color != "auto" && color != "always" && color != "never") {
+    print_error("review: --color must be auto, always or never");
+    return kUsage;
+  }
+  std::optional<review::ManifestView> mv;
+  if (!manifest.empty()) {
+    auto m = review::read_manifest(manifest);
+    if (!m.ok()) return report(m.error());
+    mv = std::move(*m);
+  }
+  review::CorpusLayout layout;
+  rc = corpus_layout("review", mv ? &*mv : nullptr, format, paragraphs, root, layout);
+  if (rc >= 0) return rc;
+
+  auto log = review::read_audit_log(edits);
+  if (!log.ok()) return report(log.error());
+  auto& records = *log;
+  std::vector<size_t> chosen;
+  for (size_t i = 0; i < records.size(); ++i)
+    if (review::passes(records[i], filter)) chosen.push_back(i);
+  size_t matched = chosen.size();
+  if (sample > 0) chosen = review::stratified_sample(records, chosen, sample, seed);
+  std::vector<review::ReviewRecord*> wanted;
+  for (size_t i : chosen) wanted.push_back(&records[i]);
+  Status s = review::attach_sources(wanted, layout);
+  if (!s.ok()) return report(s.error());
+
+  bool tty = isatty(STDOUT_FILENO);
+  const char* no_color = std::getenv("NO_COLOR");
+  review::TerminalStyle style;
+  style.color = color == "always" || (color == "auto" && tty && !(no_color && *no_color));
+  style.columns = layout_name == "columns";
+  style.width = width ? width : terminal_width(tty);
+  style.show_rules = !no_rules;
+  std::string out;
+  for (const auto* r : wanted) {
+    out += review::render_terminal(*r, style);
+    out += '\n';
+  }
+  out += "shown " + std::to_string(wanted.size()) + " of " + std::to_string(matched) +
+         " matching records (" + std::to_string(records.size()) + " in the log)\n";
+  std::cout << out << std::flush;
+  return std::cout ? kOk : kOutput;
+}
+
+}  // namespace evenhand::cli

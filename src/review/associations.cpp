@@ -1,0 +1,501 @@
+#include "review/associations.h"
+
+#include <simdjson.h>
+
+#include <algorithm>
+#include <cmath>
+#include <map>
+#include <random>
+#include <set>
+#include <unordered_map>
+
+#include "audit/json_writer.h"
+#include "evenhand/version.h"
+#include "text/case.h"
+#include "text/tokenize.h"
+
+namespace evenhand::review {
+
+Result<TargetList> parse_targets(std::string_view text, const std::string& source) {
+  TargetList out;
+  out.source = source;
+  std::set<std::string> seen;
+  size_t pos = 0;
+  uint64_t line_no = 0;
+  while (pos < text.size()) {
+    size_t nl = text.find('\n', pos);
+    if (nl == std::string_view::npos) nl = text.size();
+    std::string_view line = text.substr(pos, nl - pos);
+    pos = nl + 1;
+    ++line_no;
+    if (size_t hash = line.find('#'); hash != std::string_view::npos) line = line.substr(0, hash);
+    std::vector<std::string> words;
+    size_t i = 0;
+    while (i < line.size()) {
+      while (i < line.size() && (line[i] == ' ' || line[i] == '\t' || line[i] == '\r')) ++i;
+      size_t j = i;
+      while (j < line.size() && line[j] != ' ' && line[j] != '\t' && line[j] != '\r') ++j;
+      if (j > i) words.push_back(pack::fold_word(line.substr(i, j - i)));
+      i = j;
+    }
+    if (words.empty()) continue;
+    for (const auto& w : words) {
+      if (!seen.insert(w).second) {
+        Error e = make_error(ErrorKind::input, source, "target word '" + w + "' is listed twice");
+        e.line = line_no;
+        return e;
+      }
+    }
+    out.labels.push_back(words.front());
+    out.variants.push_back(std::move(words));
+  }
+  if (out.labels.empty()) return make_error(ErrorKind::input, source, "no target words");
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------
+// Counting
+
+namespace {
+
+const char* const kClitics[] = {"'s", "'d", "'ll", "'re", "'ve", "'m"};
+
+// The word without a trailing clitic, or empty when it has none.
+std::string_view strip_clitic(std::string_view folded) {
+  for (const char* c : kClitics) {
+    std::string_view cv(c);
+    if (folded.size() > cv.size() && folded.substr(folded.size() - cv.size()) == cv)
+      return folded.substr(0, folded.size() - cv.size());
+  }
+  return {};
+}
+
+}  // namespace
+
+struct CooccurrenceCounter::Impl {
+  std::shared_ptr<const pack::CompiledPack> pack;
+  size_t window;
+  struct Hash {
+    using is_transparent = void;
+    size_t operator()(std::string_view v) const { return std::hash<std::string_view>{}(v); }
+  };
+  std::unordered_map<std::string, uint32_t, Hash, std::equal_to<>> target_of;  // variant -> target
+  CooccurrenceCounts counts;
+  text::Tokenizer tokenizer;
+  std::vector<text::Token> tokens;
+
+  struct Item {
+    std::string_view text;
+    std::string folded;
+    bool word = false;
+    int64_t wpos = -1;   // word position (word tokens only)
+    int32_t group = -1;  // group of the mention this item belongs to
+  };
+  std::vector<Item> items;
+
+  bool matches(size_t k, const pack::LexEntry& e) const {
+    if (k + e.words.size() > items.size()) return false;
+    for (size_t j = 0; j < e.words.size(); ++j) {
+      const std::string& f = items[k + j].folded;
+      if (f == e.words[j]) continue;
+      // a clitic on the last word of the form ("mother's")
+      if (j + 1 == e.words.size() && strip_clitic(f) == e.words[j]) continue;
+      return false;
+    }
+    if (e.is_name && text::case_pattern(items[k].text) == text::CasePattern::lower) return false;
+    return true;
+  }
+
+  void add_field(std::string_view text, CooccurrenceCounts::Record& rec,
+                 std::map<uint32_t, std::vector<uint32_t>>& ys) {
+    tokenizer.tokenize(text, tokens);
+    items.clear();
+    int64_t wpos = 0;
+    for (const auto& t : tokens) {
+      if (t.kind == text::TokenKind::space) continue;
+      Item it;
+      it.text = text.substr(t.begin, t.end - t.begin);
+      it.folded = pack::fold_word(it.text);
+      it.word = t.kind == text::TokenKind::word;
+      if (it.word) it.wpos = wpos++;
+      items.push_back(std::move(it));
+    }
+    // Group words: longest entry first at each item.
+    for (size_t k = 0; k < items.size();) {
+      size_t len = 0;
+      int32_t group = -1;
+      if (items[k].word) {
+        std::string_view key = items[k].folded;
+        const auto* entries = pack->lookup(key);
+        std::string_view stem = strip_clitic(key);
+        if (!entries && !stem.empty()) entries = pack->lookup(stem);
+        if (entries)
+          for (const auto& e : *entries)
+            if (matches(k, e)) {
+              len = e.words.size();
+              group = e.group;
+              break;
+            }
+      }
+      if (len == 0) {
+        ++k;
+        continue;
+      }
+      for (size_t j = k; j < k + len; ++j) items[j].group = group;
+      k += len;
+    }
+    // Distance (in words) from every word to the nearest word of each group.
+    size_t G = counts.groups;
+    std::vector<int64_t> words_at;  // item index of each word position
+    for (size_t k = 0; k < items.size(); ++k)
+      if (items[k].word) words_at.push_back(static_cast<int64_t>(k));
+    size_t W = words_at.size();
+    const int64_t far = INT64_MAX / 4;
+    std::vector<int64_t> dist(W * G, far);
+    for (size_t g = 0; g < G; ++g) {
+      int64_t last = -far;
+      for (size_t p = 0; p < W; ++p) {
+        if (items[words_at[p]].group == static_cast<int32_t>(g)) last = static_cast<int64_t>(p);
+        dist[p * G + g] = static_cast<int64_t>(p) - last;
+      }
+      last = far;
+      for (size_t p = W; p-- > 0;) {
+        if (items[words_at[p]].group == static_cast<int32_t>(g)) last = static_cast<int64_t>(p);
+        dist[p * G + g] = std::min(dist[p * G + g], last - static_cast<int64_t>(p));
+      }
+    }
+    for (size_t p = 0; p < W; ++p) {
+      const Item& it = items[words_at[p]];
+      if (it.group >= 0) continue;  // group words are not context
+      ++counts.words;
+      auto t = target_of.find(it.folded);
+      if (t == target_of.end()) {
+        std::string_view stem = strip_clitic(it.folded);
+        if (!stem.empty()) t = target_of.find(stem);
+      }
+      if (t != target_of.end()) ++counts.occurrences[t->second];
+      for (size_t g = 0; g < G; ++g) {
+        if (dist[p * G + g] > static_cast<int64_t>(window)) continue;
+        ++rec.context[g];
+        if (t != target_of.end()) {
+          auto& y = ys[t->second];
+          if (y.empty()) y.assign(G, 0);
+          ++y[g];
+        }
+      }
+    }
+  }
+};
+
+CooccurrenceCounter::CooccurrenceCounter(std::shared_ptr<const pack::CompiledPack> pack,
+                                         const TargetList& targets, size_t window)
+    : impl_(std::make_unique<Impl>()) {
+  impl_->pack = std::move(pack);
+  impl_->window = window;
+  for (uint32_t t = 0; t < targets.variants.size(); ++t)
+    for (const auto& v : targets.variants[t]) impl_->target_of.emplace(v, t);
+  auto& c = impl_->counts;
+  c.groups = impl_->pack->groups().size();
+  c.occurrences.assign(targets.labels.size(), 0);
+  c.context_total.assign(c.groups, 0);
+  c.target_total.assign(targets.labels.size(), std::vector<uint64_t>(c.groups, 0));
+}
+
+CooccurrenceCounter::~CooccurrenceCounter() = default;
+
+void CooccurrenceCounter::add_record(std::span<const std::string_view> fields) {
+  auto& c = impl_->counts;
+  ++c.records;
+  CooccurrenceCounts::Record rec;
+  rec.context.assign(c.groups, 0);
+  std::map<uint32_t, std::vector<uint32_t>> ys;
+  for (auto f : fields) impl_->add_field(f, rec, ys);
+  bool any = false;
+  for (size_t g = 0; g < c.groups; ++g) {
+    c.context_total[g] += rec.context[g];
+    any = any || rec.context[g] > 0;
+  }
+  if (!any) return;
+  for (auto& [t, y] : ys) {
+    for (size_t g = 0; g < c.groups; ++g) c.target_total[t][g] += y[g];
+    rec.targets.emplace_back(t, std::move(y));
+  }
+  c.with_context.push_back(std::move(rec));
+}
+
+const CooccurrenceCounts& CooccurrenceCounter::counts() const {
+  return impl_->counts;
+}
+
+// ---------------------------------------------------------------------------------------
+// Statistics
+
+LogOdds log_odds_z(double y_a, double n_a, double y_b, double n_b, double alpha_w, double alpha_0) {
+  LogOdds r;
+  r.delta = std::log((y_a + alpha_w) / (n_a + alpha_0 - y_a - alpha_w)) -
+            std::log((y_b + alpha_w) / (n_b + alpha_0 - y_b - alpha_w));
+  r.variance = 1 / (y_a + alpha_w) + 1 / (y_b + alpha_w);
+  r.z = r.delta / std::sqrt(r.variance);
+  return r;
+}
+
+CorpusAssociations compute_associations(const CooccurrenceCounts& c, const AssociationOptions& o) {
+  CorpusAssociations out;
+  out.records = c.records;
+  out.words = c.words;
+  out.context = c.context_total;
+  size_t T = c.occurrences.size();
+  out.targets.resize(T);
+  for (size_t t = 0; t < T; ++t) {
+    auto& tr = out.targets[t];
+    tr.occurrences = c.occurrences[t];
+    tr.y = c.target_total[t];
+    if (tr.occurrences == 0 || c.words == 0) continue;
+    tr.alpha = o.prior * static_cast<double>(tr.occurrences) / static_cast<double>(c.words);
+    for (uint16_t a = 0; a < c.groups; ++a)
+      for (uint16_t b = a + 1; b < c.groups; ++b) {
+        PairResult pr;
+        pr.a = a;
+        pr.b = b;
+        pr.stat = log_odds_z(double(tr.y[a]), double(c.context_total[a]), double(tr.y[b]),
+                             double(c.context_total[b]), tr.alpha, o.prior);
+        tr.pairs.push_back(pr);
+      }
+  }
+  if (o.permutations == 0) return out;
+  // Per target, the records where it has context counts (sparse).
+  std::vector<std::vector<std::pair<size_t, size_t>>> where(T);  // (record, entry)
+  for (size_t r = 0; r < c.with_context.size(); ++r)
+    for (size_t k = 0; k < c.with_context[r].targets.size(); ++k)
+      where[c.with_context[r].targets[k].first].emplace_back(r, k);
+  size_t R = c.with_context.size();
+  size_t pair_index = 0;
+  for (uint16_t a = 0; a < c.groups; ++a)
+    for (uint16_t b = a + 1; b < c.groups; ++b, ++pair_index) {
+      std::mt19937_64 rng(o.seed);
+      std::vector<uint64_t> bits((R + 63) / 64);
+      std::vector<uint64_t> extreme(T, 0);
+      for (uint32_t draw = 0; draw < o.permutations; ++draw) {
+        for (auto& w : bits) w = rng();
+        auto flip = [&](size_t r) { return (bits[r / 64] >> (r % 64)) & 1; };
+        double na = 0, nb = 0;
+        for (size_t r = 0; r < R; ++r) {
+          const auto& ctx = c.with_context[r].context;
+          if (flip(r)) {
+            na += ctx[b];
+            nb += ctx[a];
+          } else {
+            na += ctx[a];
+            nb += ctx[b];
+          }
+        }
+        for (size_t t = 0; t < T; ++t) {
+          auto& tr = out.targets[t];
+          if (tr.pairs.empty()) continue;
+          double ya = 0, yb = 0;
+          for (auto [r, k] : where[t]) {
+            const auto& y = c.with_context[r].targets[k].second;
+            if (flip(r)) {
+              ya += y[b];
+              yb += y[a];
+            } else {
+              ya += y[a];
+              yb += y[b];
+            }
+          }
+          double z = log_odds_z(ya, na, yb, nb, tr.alpha, o.prior).z;
+          if (std::fabs(z) >= std::fabs(tr.pairs[pair_index].stat.z) * (1 - 1e-12)) ++extreme[t];
+        }
+      }
+      for (size_t t = 0; t < T; ++t) {
+        auto& tr = out.targets[t];
+        if (tr.pairs.empty()) continue;
+        tr.pairs[pair_index].p =
+            (1.0 + static_cast<double>(extreme[t])) / (1.0 + static_cast<double>(o.permutations));
+      }
+    }
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------
+// JSON
+
+std::string render_associations(const AssociationReport& r) {
+  std::string out;
+  audit::JsonWriter w(out, 2);
+  w.begin_object();
+  w.key("schema").value(kAssociationsSchema);
+  w.key("tool").begin_object().key("name").value("evenhand").key("version").value(kVersion);
+  w.end_object();
+  w.key("pack").begin_object();
+  w.key("name").value(r.pack_name).key("version").value(r.pack_version);
+  w.key("sha256").value(r.pack_sha256).key("axis").value(r.axis);
+  w.key("groups").begin_array();
+  for (const auto& g : r.groups) w.value(g);
+  w.end_array().end_object();
+  w.key("method").begin_object();
+  w.key("statistic").value("log-odds ratio with informative Dirichlet prior, z-score");
+  w.key("window").value(static_cast<uint64_t>(r.options.window));
+  w.key("prior").value(r.options.prior);
+  w.key("permutations").value(static_cast<uint64_t>(r.options.permutations));
+  w.key("seed").value(r.options.seed);
+  w.end_object();
+  w.key("targets").begin_object();
+  w.key("source").value(r.targets.source);
+  w.key("words").begin_array();
+  for (size_t t = 0; t < r.targets.labels.size(); ++t) {
+    w.begin_array();
+    for (const auto& v : r.targets.variants[t]) w.value(v);
+    w.end_array();
+  }
+  w.end_array().end_object();
+  w.key("corpora").begin_array();
+  for (const auto& c : r.corpora) {
+    w.begin_object();
+    w.key("label").value(c.label);
+    w.key("inputs").begin_array();
+    for (const auto& [path, sha] : c.inputs)
+      w.begin_object().key("path").value(path).key("sha256").value(sha).end_object();
+    w.end_array();
+    w.key("records").value(c.records).key("words").value(c.words);
+    w.key("context").begin_object();
+    for (size_t g = 0; g < r.groups.size() && g < c.context.size(); ++g)
+      w.key(r.groups[g]).value(c.context[g]);
+    w.end_object();
+    w.key("targets").begin_array();
+    for (size_t t = 0; t < c.targets.size() && t < r.targets.labels.size(); ++t) {
+      const auto& tr = c.targets[t];
+      w.begin_object();
+      w.key("target").value(r.targets.labels[t]);
+      w.key("occurrences").value(tr.occurrences);
+      w.key("alpha").value(tr.alpha);
+      w.key("cooccurrences").begin_object();
+      for (size_t g = 0; g < r.groups.size() && g < tr.y.size(); ++g)
+        w.key(r.groups[g]).value(tr.y[g]);
+      w.end_object();
+      w.key("pairs").begin_array();
+      for (const auto& p : tr.pairs) {
+        w.begin_object();
+        w.key("a").value(r.groups[p.a]).key("b").value(r.groups[p.b]);
+        w.key("log_odds").value(p.stat.delta).key("variance").value(p.stat.variance);
+        w.key("z").value(p.stat.z);
+        w.key("p");
+        if (p.p)
+          w.value(*p.p);
+        else
+          w.null();
+        w.end_object();
+      }
+      w.end_array().end_object();
+    }
+    w.end_array().end_object();
+  }
+  w.end_array();
+  w.end_object();
+  out += '\n';
+  return out;
+}
+
+namespace {
+
+using simdjson::dom::element;
+
+std::string sget(element e, const char* k) {
+  std::string_view v;
+  return e[k].get_string().get(v) ? std::string() : std::string(v);
+}
+uint64_t uget(element e, const char* k) {
+  uint64_t v = 0;
+  return e[k].get_uint64().get(v) ? 0 : v;
+}
+double dget(element e, const char* k) {
+  double v = 0;
+  return e[k].get_double().get(v) ? 0 : v;
+}
+
+}  // namespace
+
+Result<AssociationReport> read_associations(const std::string& path) {
+  simdjson::dom::parser parser;
+  element doc;
+  auto fail = [&](const std::string& why) { return make_error(ErrorKind::input, path, why); };
+  if (auto err = parser.load(path).get(doc))
+    return fail(std::string("cannot read associations: ") + simdjson::error_message(err));
+  if (!doc.is_object() || sget(doc, "schema") != kAssociationsSchema)
+    return fail(std::string("not an associations file of schema ") + kAssociationsSchema);
+  AssociationReport r;
+  element pk = doc["pack"];
+  r.pack_name = sget(pk, "name");
+  r.pack_version = sget(pk, "version");
+  r.pack_sha256 = sget(pk, "sha256");
+  r.axis = sget(pk, "axis");
+  simdjson::dom::array arr;
+  if (pk["groups"].get_array().get(arr)) return fail("'pack.groups' is missing");
+  for (element g : arr) {
+    std::string_view s;
+    if (g.get_string().get(s)) return fail("'pack.groups' holds a non-string");
+    r.groups.emplace_back(s);
+  }
+  element m = doc["method"];
+  r.options.window = uget(m, "window");
+  r.options.prior = dget(m, "prior");
+  r.options.permutations = static_cast<uint32_t>(uget(m, "permutations"));
+  r.options.seed = uget(m, "seed");
+  r.targets.source = sget(doc["targets"], "source");
+  if (doc["targets"]["words"].get_array().get(arr)) return fail("'targets.words' is missing");
+  for (element t : arr) {
+    simdjson::dom::array vs;
+    if (t.get_array().get(vs)) return fail("'targets.words' holds a non-array");
+    std::vector<std::string> v;
+    for (element x : vs) {
+      std::string_view s;
+      if (!x.get_string().get(s)) v.emplace_back(s);
+    }
+    if (v.empty()) return fail("'targets.words' holds an empty entry");
+    r.targets.labels.push_back(v.front());
+    r.targets.variants.push_back(std::move(v));
+  }
+  if (doc["corpora"].get_array().get(arr)) return fail("'corpora' is missing");
+  for (element c : arr) {
+    CorpusAssociations ca;
+    ca.label = sget(c, "label");
+    ca.records = uget(c, "records");
+    ca.words = uget(c, "words");
+    simdjson::dom::array ins;
+    if (!c["inputs"].get_array().get(ins))
+      for (element i : ins) ca.inputs.emplace_back(sget(i, "path"), sget(i, "sha256"));
+    for (const auto& g : r.groups) ca.context.push_back(uget(c["context"], g.c_str()));
+    simdjson::dom::array ts;
+    if (c["targets"].get_array().get(ts)) return fail("'corpora[].targets' is missing");
+    for (element t : ts) {
+      TargetResult tr;
+      tr.occurrences = uget(t, "occurrences");
+      tr.alpha = dget(t, "alpha");
+      for (const auto& g : r.groups) tr.y.push_back(uget(t["cooccurrences"], g.c_str()));
+      simdjson::dom::array ps;
+      if (!t["pairs"].get_array().get(ps))
+        for (element p : ps) {
+          PairResult pr;
+          auto a = std::find(r.groups.begin(), r.groups.end(), sget(p, "a"));
+          auto b = std::find(r.groups.begin(), r.groups.end(), sget(p, "b"));
+          if (a == r.groups.end() || b == r.groups.end())
+            return fail("a pair names a group that is not in 'pack.groups'");
+          pr.a = static_cast<uint16_t>(a - r.groups.begin());
+          pr.b = static_cast<uint16_t>(b - r.groups.begin());
+          pr.stat.delta = dget(p, "log_odds");
+          pr.stat.variance = dget(p, "variance");
+          pr.stat.z = dget(p, "z");
+          double pv = 0;
+          if (!p["p"].get_double().get(pv)) pr.p = pv;
+          tr.pairs.push_back(pr);
+        }
+      ca.targets.push_back(std::move(tr));
+    }
+    if (ca.targets.size() != r.targets.labels.size())
+      return fail("corpus '" + ca.label + "' lists another number of targets than 'targets.words'");
+    r.corpora.push_back(std::move(ca));
+  }
+  return r;
+}
+
+}  // namespace evenhand::review

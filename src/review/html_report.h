@@ -1,0 +1,42 @@
+// The HTML report of a run: one self-contained page (inline CSS and SVG drawn here; no
+// scripts, fonts or other requests, and a Content-Security-Policy that forbids them) built
+// from a manifest, optionally an audit log sample and an association audit. Rendering is a
+// pure function of its input, so the same run gives the same bytes.
+#pragma once
+
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "review/associations.h"
+#include "review/audit_log.h"
+#include "review/manifest_view.h"
+
+namespace evenhand::review {
+
+struct ReportFile {
+  std::string role, path, sha256;
+  uint64_t bytes = 0;
+};
+
+struct ReportInput {
+  const ManifestView* manifest = nullptr;    // required
+  std::vector<const ReviewRecord*> sample;   // diffs to show (sources attached)
+  size_t sample_from = 0;                    // records of the log with edits
+  std::vector<const ReviewRecord*> guarded;  // guarded records of the log
+  std::vector<const ReviewRecord*> flagged;  // flagged records of the log
+  const AssociationReport* associations = nullptr;
+  std::vector<ReportFile> read;       // files the report itself read
+  std::vector<std::string> cautions;  // shown verbatim (plain text, `code` marked)
+};
+
+// The cautions of the README ("## Cautions"), as plain-text paragraphs.
+const std::vector<std::string>& report_cautions();
+
+// The page. Element ids that tests and readers rely on: chart-groups-mentions,
+// chart-groups-records, chart-entries, chart-flagged, chart-guarded, chart-associations
+// (when associations are given), section ids summary, groups, entries, agreement, guards,
+// associations, sample, files, cautions.
+std::string render_report(const ReportInput& in);
+
+}  // namespace evenhand::review

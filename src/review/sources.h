@@ -1,0 +1,52 @@
+// Reads the corpus records an audit log talks about, so edits can be shown in context, and
+// checks that the log fits the corpus: every edit's `from` must be the bytes at its offset.
+// A log that names a missing record, field or different text is an Error naming where.
+#pragma once
+
+#include <cstdint>
+#include <functional>
+#include <span>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "base/status.h"
+#include "corpus/records.h"
+#include "review/audit_log.h"
+
+namespace evenhand::review {
+
+enum class CorpusFormat { jsonl, text };
+
+struct CorpusLayout {
+  CorpusFormat format = CorpusFormat::jsonl;
+  corpus::Framing framing = corpus::Framing::lines;
+  size_t max_record_bytes = 16u << 20;
+  // Relative input paths of the log are read relative to this directory ("" = as given).
+  std::string root;
+};
+
+// Calls `fn(record)` for every record of `path` in order. `fn` returns true to go on, false
+// to stop, or an Error whose file and line, when empty, are filled in with this record's.
+// Returns the hex SHA-256 of the file's bytes when it was read to its end (else empty).
+// Errors from the source pass through; an oversized record is an Error naming its line.
+Result<std::string> for_each_record(
+    const std::string& path, const CorpusLayout& layout,
+    const std::function<Result<bool>(const corpus::RawRecord&)>& fn);
+
+// Calls `fn(fields)` with the selected string fields of every record of `path` (JSONL: the
+// values `patterns` match; text: the whole record). Returns the hex SHA-256 of the file's
+// bytes. A bad record is an Error naming the file, line and reason.
+Result<std::string> for_each_fields(
+    const std::string& path, const CorpusLayout& layout, const std::vector<std::string>& patterns,
+    const std::function<void(std::span<const std::string_view>)>& fn);
+
+// Fills `fields` (the decoded text of every field the edits name) and `raw` of each record,
+// reading each input once. Errors when an input cannot be read again (standard input), a
+// record or field is not there, or an edit's `from` differs from the corpus bytes.
+Status attach_sources(std::vector<ReviewRecord*>& records, const CorpusLayout& layout);
+
+// The path a logged input is read from under `layout.root`.
+std::string resolve_input(const std::string& input, const CorpusLayout& layout);
+
+}  // namespace evenhand::review

@@ -1,0 +1,240 @@
+// The association audit (review/associations.h): the statistic on a hand-computed example,
+// the counting of contexts, the permutation test, the shipped target list, and the property
+// that two-sided augmentation (run through the CLI) leaves no skew between the swapped pair.
+#include <catch2/catch.hpp>
+
+#include <cmath>
+
+#include "review/associations.h"
+#include "support/temp_dir.h"
+
+using namespace evenhand;
+using evenhand::testing::read_file;
+using evenhand::testing::shell;
+using evenhand::testing::TempDir;
+using evenhand::testing::write_file;
+
+namespace {
+
+std::shared_ptr<const pack::CompiledPack> en_pack() {
+  std::vector<pack::Diagnostic> d;
+  auto p = pack::load_pack("en-gender", d);
+  REQUIRE(p.ok());
+  return *p;
+}
+
+review::TargetList targets(const std::string& text) {
+  auto t = review::parse_targets(text, "test");
+  REQUIRE(t.ok());
+  return *t;
+}
+
+}  // namespace
+
+TEST_CASE("log-odds z with an informative Dirichlet prior, by hand") {
+  // The z-score form of Monroe, Colaresi & Quinn 2008 ("Fightin' Words", Political Analysis
+  // 16(4)), as written in review/associations.h (formula from memory). By hand, with
+  // y_a = 3, n_a = 100, y_b = 1, n_b = 50, alpha_w = 0.5, alpha_0 = 10:
+  //   a: (3 + 0.5) / (100 + 10 - 3 - 0.5) = 3.5 / 106.5;  ln 3.5 = 1.252763, ln 106.5 = 4.668145
+  //      -> -3.415382
+  //   b: (1 + 0.5) / (50 + 10 - 1 - 0.5) = 1.5 / 58.5;    ln 1.5 = 0.405465, ln 58.5 = 4.069027
+  //      -> -3.663562
+  //   delta = -3.415382 - (-3.663562) = 0.248180
+  //   var   = 1 / 3.5 + 1 / 1.5 = 0.285714 + 0.666667 = 0.952381;  sqrt = 0.975900
+  //   z     = 0.248180 / 0.975900 = 0.254308
+  auto r = review::log_odds_z(3, 100, 1, 50, 0.5, 10);
+  CHECK(r.delta == Approx(0.248180).epsilon(1e-5));
+  CHECK(r.variance == Approx(0.952381).epsilon(1e-5));
+  CHECK(r.z == Approx(0.254308).epsilon(1e-5));
+  // Swapping the groups flips the sign only.
+  auto s = review::log_odds_z(1, 50, 3, 100, 0.5, 10);
+  CHECK(s.z == Approx(-r.z));
+  // Equal counts give exactly zero.
+  CHECK(review::log_odds_z(4, 80, 4, 80, 0.3, 10).z == 0.0);
+}
+
+TEST_CASE("contexts are counted in a window of words around each group's words") {
+  // By hand, window 3, one record: She(0, female) thanked(1) the(2) nurse(3) and(4)
+  // he(5, male) met(6) a(7) mechanic(8).
+  //   female context: words 1-3 -> thanked, the, nurse              n_f = 3, nurse 1
+  //   male context:   words 2-4 and 6-8 -> the nurse and met a mechanic   n_m = 6, nurse 1,
+  //                   mechanic 1
+  //   words that are not group words: N = 7; nurse and mechanic occur once each.
+  // With alpha_0 = 7: alpha_nurse = 7 * 1 / 7 = 1, and for nurse, female vs male:
+  //   a: (1 + 1) / (3 + 7 - 1 - 1) = 2 / 8  -> ln 0.25 = -1.386294
+  //   b: (1 + 1) / (6 + 7 - 1 - 1) = 2 / 11 -> ln 2 - ln 11 = 0.693147 - 2.397895 = -1.704748
+  //   delta = 0.318454, var = 1/2 + 1/2 = 1, z = 0.318454
+  auto pk = en_pack();
+  auto t = targets("nurse nurses\nmechanic\nsurgeon\n");
+  review::CooccurrenceCounter counter(pk, t, 3);
+  std::string_view field = "She thanked the nurse and he met a mechanic";
+  counter.add_record(std::span(&field, 1));
+  const auto& c = counter.counts();
+  auto f = *pk->group_index("female"), m = *pk->group_index("male");
+  CHECK(c.words == 7);
+  CHECK(c.context_total[f] == 3);
+  CHECK(c.context_total[m] == 6);
+  CHECK(c.occurrences == std::vector<uint64_t>{1, 1, 0});
+  CHECK(c.target_total[0][f] == 1);
+  CHECK(c.target_total[0][m] == 1);
+  CHECK(c.target_total[1][f] == 0);
+  CHECK(c.target_total[1][m] == 1);
+
+  review::AssociationOptions o;
+  o.prior = 7;
+  o.permutations = 0;
+  auto a = review::compute_associations(c, o);
+  REQUIRE(a.targets[0].pairs.size() == 3);  // female-male, female-neutral, male-neutral
+  CHECK(a.targets[0].alpha == Approx(1.0));
+  CHECK(a.targets[0].pairs[0].stat.z == Approx(0.318454).epsilon(1e-5));
+  CHECK_FALSE(a.targets[0].pairs[0].p.has_value());
+  CHECK(a.targets[2].pairs.empty());  // surgeon does not occur: no statistic
+}
+
+TEST_CASE("group words: multiword forms, clitics, names only when capitalised") {
+  auto pk = en_pack();
+  auto t = targets("nurse\n");
+  review::CooccurrenceCounter counter(pk, t, 1);
+  // "mother's" is a female form with a clitic; "emma" in lower case is not a name;
+  // "nurse's" counts as the target nurse.
+  std::string_view fields[] = {"mother's nurse's", "emma nurse", "Emma nurse"};
+  counter.add_record(fields);
+  const auto& c = counter.counts();
+  auto f = *pk->group_index("female");
+  CHECK(c.target_total[0][f] == 2);  // fields 1 and 3; a window never crosses fields
+  CHECK(c.occurrences[0] == 3);
+  CHECK(c.words == 4);  // nurse's, emma, nurse, nurse
+}
+
+TEST_CASE("permutation test: seeded, p = 1 without skew, small with a strong one") {
+  auto pk = en_pack();
+  auto t = targets("nurse\nmechanic\n");
+  review::CooccurrenceCounter skewed(pk, t, 5), even(pk, t, 5);
+  for (int i = 0; i < 30; ++i) {
+    std::string_view a = "She is the nurse on the ward", b = "He is the mechanic in the shop";
+    skewed.add_record(std::span(&a, 1));
+    skewed.add_record(std::span(&b, 1));
+    std::string_view c = "He is the nurse on the ward", d = "She is the mechanic in the shop";
+    even.add_record(std::span(&a, 1));
+    even.add_record(std::span(&b, 1));
+    even.add_record(std::span(&c, 1));
+    even.add_record(std::span(&d, 1));
+  }
+  review::AssociationOptions o;
+  o.permutations = 199;
+  o.seed = 7;
+  auto s1 = review::compute_associations(skewed.counts(), o);
+  auto s2 = review::compute_associations(skewed.counts(), o);
+  const auto& p = s1.targets[0].pairs[0];
+  CHECK(p.stat.z > 2);
+  REQUIRE(p.p.has_value());
+  // 60 records with labels exchanged at random: no draw reaches the observed |z|, so the
+  // p-value is its floor 1 / (1 + 199) (permutation p-values, common practice).
+  CHECK(*p.p == Approx(1.0 / 200));
+  CHECK(*s2.targets[0].pairs[0].p == *p.p);
+  CHECK(s1.targets[1].pairs[0].stat.z < -2);
+
+  auto e = review::compute_associations(even.counts(), o);
+  CHECK(e.targets[0].pairs[0].stat.z == 0.0);
+  CHECK(*e.targets[0].pairs[0].p == 1.0);
+}
+
+TEST_CASE("target lists: variants, comments, duplicates refused with the line") {
+  auto t = review::parse_targets("# roles\nNurse nurses  # both\n\nchef\n", "list.txt");
+  REQUIRE(t.ok());
+  CHECK(t->labels == std::vector<std::string>{"nurse", "chef"});
+  CHECK(t->variants[0] == std::vector<std::string>{"nurse", "nurses"});
+  auto bad = review::parse_targets("nurse\nchef nurse\n", "list.txt");
+  REQUIRE_FALSE(bad.ok());
+  CHECK(bad.error().message() == "list.txt:2: target word 'nurse' is listed twice");
+  CHECK_FALSE(review::parse_targets("# nothing\n", "empty.txt").ok());
+}
+
+TEST_CASE("the shipped target list holds no form or name of the pack") {
+  auto pk = en_pack();
+  const std::string* data = pk->file("targets.data");
+  REQUIRE(data != nullptr);
+  auto t = review::parse_targets(*data, "targets.data");
+  REQUIRE(t.ok());
+  CHECK(t->labels.size() >= 40);
+  for (const auto& vs : t->variants)
+    for (const auto& v : vs) {
+      INFO(v);
+      CHECK(pk->lookup(v) == nullptr);
+    }
+}
+
+TEST_CASE("JSON round trip of an association report") {
+  auto pk = en_pack();
+  auto t = targets("nurse\nchef\n");
+  review::CooccurrenceCounter counter(pk, t, 4);
+  std::string_view f = "She asked the nurse and he asked the chef";
+  counter.add_record(std::span(&f, 1));
+  review::AssociationReport r;
+  r.pack_name = pk->name();
+  r.groups = pk->groups();
+  r.targets = t;
+  r.options.permutations = 9;
+  r.corpora.push_back(review::compute_associations(counter.counts(), r.options));
+  r.corpora.back().label = "before";
+  TempDir d;
+  write_file(d.file("a.json"), review::render_associations(r));
+  auto back = review::read_associations(d.file("a.json"));
+  REQUIRE(back.ok());
+  CHECK(review::render_associations(*back) == review::render_associations(r));
+  write_file(d.file("bad.json"), "{\"schema\": \"other\"}");
+  auto bad = review::read_associations(d.file("bad.json"));
+  REQUIRE_FALSE(bad.ok());
+  CHECK(bad.error().message().find("bad.json") != std::string::npos);
+}
+
+TEST_CASE("two-sided augmentation through the CLI drives every target's skew to zero") {
+  // A corpus written for this test: each record mentions female or male words (pronouns,
+  // nouns, names) near occupation words, with a strong skew (nurses with she, mechanics
+  // with he). No guard phrase, protected span or multiword form, so augment mode adds an
+  // exact mirror of every record with mentions.
+  TempDir d;
+  const char* she[] = {"She", "Emma", "Her mother", "My aunt"};
+  const char* he[] = {"He", "James", "His father", "My uncle"};
+  const char* f_jobs[] = {"nurse", "secretary", "teacher", "librarian"};
+  const char* m_jobs[] = {"mechanic", "engineer", "pilot", "captain"};
+  std::string corpus;
+  int id = 0;
+  auto add = [&](const char* who, const char* job) {
+    corpus += "{\"id\": " + std::to_string(id++) + ", \"text\": \"" + who + " works as the " + job +
+              " at the depot and likes the early shift.\"}\n";
+  };
+  for (int j = 0; j < 4; ++j)
+    for (int r = 0; r < 6; ++r) {  // five in six records follow the stereotype
+      add(she[r % 4], r < 5 ? f_jobs[j] : m_jobs[j]);
+      add(he[r % 4], r < 5 ? m_jobs[j] : f_jobs[j]);
+    }
+  corpus += "{\"id\": 99, \"text\": \"The depot needs a driver for the late shift.\"}\n";
+  write_file(d.file("in.jsonl"), corpus);
+  std::string bin = evenhand::testing::evenhand_binary();
+  REQUIRE(shell(bin + " run --pack en-gender --in " + d.file("in.jsonl") + " --out " +
+                d.file("aug.jsonl") + " --manifest " + d.file("m.json") + " --quiet") == 0);
+  REQUIRE(shell(bin + " associations --pack en-gender --in " + d.file("in.jsonl") + " --after " +
+                d.file("aug.jsonl") + " --permutations 99 --out " + d.file("assoc.json")) == 0);
+  auto r = review::read_associations(d.file("assoc.json"));
+  REQUIRE(r.ok());
+  REQUIRE(r->corpora.size() == 2);
+  CHECK(r->corpora[1].records == 48 * 2 + 1);
+  size_t measured = 0, skewed_before = 0;
+  for (size_t t = 0; t < r->targets.labels.size(); ++t) {
+    const auto& before = r->corpora[0].targets[t];
+    const auto& after = r->corpora[1].targets[t];
+    if (after.pairs.empty()) continue;
+    INFO(r->targets.labels[t]);
+    ++measured;
+    if (std::fabs(before.pairs[0].stat.z) > 1) ++skewed_before;
+    REQUIRE(after.pairs[0].a == 0);
+    REQUIRE(after.pairs[0].b == 1);
+    CHECK(after.y[0] == after.y[1]);
+    CHECK(after.pairs[0].stat.z == 0.0);
+    CHECK(*after.pairs[0].p == 1.0);
+  }
+  CHECK(measured == 9);       // eight occupations and "driver"
+  CHECK(skewed_before == 8);  // every occupation was skewed before
+  CHECK(r->corpora[1].context[0] == r->corpora[1].context[1]);
+}

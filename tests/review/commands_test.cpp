@@ -1,0 +1,269 @@
+// The review, report and associations commands end to end on the demo corpus: what they
+// print, colour rules (NO_COLOR, --color), clear errors with exit codes, all-or-nothing
+// output, and the HTML page rendered by headless Chromium (Debian package chromium).
+#include <catch2/catch.hpp>
+
+#include <filesystem>
+#include <regex>
+
+#include "review/html_report.h"
+#include "support/temp_dir.h"
+
+using evenhand::testing::read_file;
+using evenhand::testing::shell;
+using evenhand::testing::TempDir;
+using evenhand::testing::write_file;
+
+namespace {
+
+struct Ran {
+  int code = -1;
+  std::string out, err;
+};
+
+Ran run(const TempDir& d, const std::string& args, const std::string& env = "") {
+  Ran r;
+  r.code = shell(env + " " + evenhand::testing::evenhand_binary() + " " + args + " >" +
+                 d.file("stdout") + " 2>" + d.file("stderr") + " </dev/null");
+  r.out = read_file(d.file("stdout"));
+  r.err = read_file(d.file("stderr"));
+  return r;
+}
+
+// The README's demo run into `d`: out.jsonl, m.json, edits.jsonl.
+void demo(const TempDir& d) {
+  std::string in = evenhand::testing::source_dir() + "/samples/helpdesk.jsonl";
+  auto r = run(d, "run --pack en-gender --in " + in +
+                      " --field /text --field '/messages/*/content' --out " + d.file("out.jsonl") +
+                      " --manifest " + d.file("m.json") + " --edits " + d.file("edits.jsonl") +
+                      " --quiet");
+  REQUIRE(r.code == 0);
+}
+
+bool exists(const std::string& p) {
+  return std::filesystem::exists(p);
+}
+
+// README: exit codes 2 usage, 3 input, 4 output.
+constexpr int kUsage = 2, kInput = 3, kOutput = 4;
+
+}  // namespace
+
+TEST_CASE("review: filters, sample, no colour when piped, colour on request") {
+  TempDir d;
+  demo(d);
+  std::string log = d.file("edits.jsonl");
+  auto all = run(d, "review " + log + " --manifest " + d.file("m.json"));
+  REQUIRE(all.code == 0);
+  CHECK(all.out.find("\x1b[") == std::string::npos);  // stdout is a file here
+  CHECK(all.out.find("[-Emma-]{+Jacob+}") != std::string::npos);
+  CHECK(all.out.find("shown 234 of 234 matching records (234 in the log)") != std::string::npos);
+
+  auto guarded = run(d, "review " + log + " --guard medical");
+  REQUIRE(guarded.code == 0);
+  CHECK(guarded.out.find("shown 4 of 4 matching records") != std::string::npos);
+  CHECK(guarded.out.find("guarded (medical: 'prostate', guards.txt:50)") != std::string::npos);
+
+  auto rule = run(d, "review " + log + " --rule words.txt:300 --why lexicon");
+  REQUIRE(rule.code == 0);
+  CHECK(rule.out.find("[-chairwoman-]{+chairman+}") != std::string::npos);
+  CHECK(rule.out.find("[-Emma-]{+Jacob+}") != std::string::npos);  // line 13, with its other edits
+
+  auto s1 = run(d, "review " + log + " --sample 5 --seed 3");
+  auto s2 = run(d, "review " + log + " --sample 5 --seed 3");
+  REQUIRE(s1.code == 0);
+  CHECK(s1.out == s2.out);
+  CHECK(s1.out.find("shown 5 of 234 matching records") != std::string::npos);
+
+  auto always = run(d, "review " + log + " --sample 2 --color always");
+  CHECK(always.out.find("\x1b[32;1m") != std::string::npos);
+  // NO_COLOR (no-color.org) only matters for --color auto, which needs a terminal.
+  auto no_color = run(d, "review " + log + " --sample 2", "NO_COLOR=1");
+  CHECK(no_color.out.find("\x1b[") == std::string::npos);
+  if (shell("command -v script >/dev/null 2>&1") == 0) {
+    // util-linux script(1) gives the command a terminal.
+    std::string bin = evenhand::testing::evenhand_binary();
+    std::string cmd =
+        "script -qec \"" + bin + " review " + log + " --why name --sample 1\" /dev/null";
+    shell(cmd + " > " + d.file("tty.txt") + " 2>&1");
+    CHECK(read_file(d.file("tty.txt")).find("\x1b[32;1m") != std::string::npos);
+    shell("NO_COLOR=1 " + cmd + " > " + d.file("tty2.txt") + " 2>&1");
+    CHECK(read_file(d.file("tty2.txt")).find("\x1b[") == std::string::npos);
+  }
+  auto cols = run(d, "review " + log + " --rule words.txt:300 --layout columns --width 120");
+  CHECK(cols.out.find("| Committee news: [Jacob]") != std::string::npos);
+}
+
+TEST_CASE("review: bad options and logs that do not fit are one clear line") {
+  TempDir d;
+  demo(d);
+  auto usage = run(d, "review " + d.file("edits.jsonl") + " --layout sideways");
+  CHECK(usage.code == kUsage);
+  CHECK(usage.err == "evenhand: review: --layout must be inline or columns\n");
+  write_file(d.file("bad.jsonl"), read_file(d.file("edits.jsonl")) + "{\"line\": 3}\n");
+  auto bad = run(d, "review " + d.file("bad.jsonl"));
+  CHECK(bad.code == kInput);
+  CHECK(bad.err == "evenhand: " + d.file("bad.jsonl") +
+                       ":235: audit line lacks 'input', 'line' or 'action'\n");
+  // The log of one run against another corpus.
+  std::string other = d.file("other.jsonl");
+  write_file(other, "{\"text\": \"He rode.\"}\n");
+  write_file(d.file("o.edits.jsonl"),
+             "{\"input\":\"" + other +
+                 "\",\"line\":1,\"action\":\"added\",\"edits\":[{\"field\":\"/text\",\"at\":0,"
+                 "\"len\":3,\"from\":\"She\",\"to\":\"He\",\"why\":\"lexicon\"}]}\n");
+  auto mismatch = run(d, "review " + d.file("o.edits.jsonl"));
+  CHECK(mismatch.code == kInput);
+  CHECK(mismatch.err == "evenhand: " + other +
+                            ":1: the audit log does not match this corpus: 'She' is not at byte 0 "
+                            "of /text\n");
+}
+
+TEST_CASE("report: a self-contained page, written all or nothing") {
+  TempDir d;
+  demo(d);
+  std::string html = d.file("report.html");
+  auto r = run(d, "report --manifest " + d.file("m.json") + " --edits " + d.file("edits.jsonl") +
+                      " --out " + html);
+  REQUIRE(r.code == 0);
+  CHECK(r.err.empty());
+  std::string page = read_file(html);
+  for (const char* id :
+       {"chart-groups-mentions", "chart-groups-records", "chart-entries", "chart-flagged",
+        "chart-guarded", "summary", "sample", "files", "cautions"}) {
+    INFO(id);
+    CHECK(page.find(std::string("id=\"") + id + "\"") != std::string::npos);
+  }
+  // Nothing to fetch: no scripts, no external references, a policy that forbids them.
+  CHECK(page.find("<script") == std::string::npos);
+  CHECK(page.find("src=") == std::string::npos);
+  CHECK(page.find("href=") == std::string::npos);
+  CHECK(page.find("url(") == std::string::npos);
+  CHECK(page.find("@import") == std::string::npos);
+  CHECK(page.find("default-src 'none'") != std::string::npos);
+  // The manifest's figures and hashes are on the page.
+  CHECK(page.find("4 records left as they were") != std::string::npos);
+  // The sample: 12 records by default, each edit marked up.
+  std::regex rec("<div class=\"rec\">");
+  CHECK(std::distance(std::sregex_iterator(page.begin(), page.end(), rec),
+                      std::sregex_iterator()) == 12);
+  CHECK(page.find("<del title=\"") != std::string::npos);
+  CHECK(page.find("<ins title=\"") != std::string::npos);
+  std::smatch sha;
+  std::string manifest = read_file(d.file("m.json"));
+  REQUIRE(std::regex_search(manifest, sha, std::regex("\"sha256\": \"([0-9a-f]{64})\"")));
+  CHECK(page.find(sha[1].str()) != std::string::npos);
+  // Same inputs, same bytes.
+  REQUIRE(run(d, "report --manifest " + d.file("m.json") + " --edits " + d.file("edits.jsonl") +
+                     " --out " + d.file("again.html"))
+              .code == 0);
+  CHECK(read_file(d.file("again.html")) == page);
+
+  // Failures leave nothing under the final name.
+  auto missing_dir =
+      run(d, "report --manifest " + d.file("m.json") + " --out " + d.file("no/such/dir/r.html"));
+  CHECK(missing_dir.code == kOutput);
+  write_file(d.file("broken.jsonl"), read_file(d.file("edits.jsonl")) + "{oops\n");
+  auto broken = run(d, "report --manifest " + d.file("m.json") + " --edits " +
+                           d.file("broken.jsonl") + " --out " + d.file("broken.html"));
+  CHECK(broken.code == kInput);
+  CHECK(broken.err.find(d.file("broken.jsonl") + ":235: invalid JSON") != std::string::npos);
+  CHECK_FALSE(exists(d.file("broken.html")));
+  auto not_manifest =
+      run(d, "report --manifest " + d.file("edits.jsonl") + " --out " + d.file("x.html"));
+  CHECK(not_manifest.code == kInput);
+  CHECK_FALSE(exists(d.file("x.html")));
+  auto self = run(d, "report --manifest " + d.file("m.json") + " --out " + d.file("m.json"));
+  CHECK(self.code == kUsage);
+}
+
+TEST_CASE("report: a balance run shows the planned counts on its basis's chart") {
+  TempDir d;
+  std::string in = evenhand::testing::source_dir() + "/samples/helpdesk.jsonl";
+  REQUIRE(run(d, "run --pack en-gender --in " + in +
+                     " --field /text --field '/messages/*/content' --mode balance --target "
+                     "female=1,male=1 --out " +
+                     d.file("b.jsonl") + " --manifest " + d.file("m.json") + " --quiet")
+              .code == 0);
+  REQUIRE(run(d, "report --manifest " + d.file("m.json") + " --out " + d.file("r.html")).code == 0);
+  std::string page = read_file(d.file("r.html"));
+  size_t mentions = page.find("id=\"chart-groups-mentions\"");
+  size_t records = page.find("id=\"chart-groups-records\"");
+  REQUIRE(mentions < records);
+  std::string m_chart = page.substr(mentions, records - mentions);
+  std::string r_chart = page.substr(records, page.find("</svg>", records) - records);
+  CHECK(m_chart.find("class=\"bar planned\" data-series=\"planned\"") != std::string::npos);
+  CHECK(r_chart.find("planned") == std::string::npos);  // --basis mentions: no planned records
+  CHECK(page.find("No audit log was given") != std::string::npos);
+}
+
+TEST_CASE("report: the cautions are the README's, word for word") {
+  std::string readme = read_file(evenhand::testing::source_dir() + "/README.md");
+  size_t start = readme.find("## Cautions\n");
+  REQUIRE(start != std::string::npos);
+  size_t end = readme.find("\n## ", start + 1);
+  std::string section = readme.substr(start, end - start);
+  std::vector<std::string> bullets;
+  std::regex ws("\\s+");
+  for (size_t p = section.find("\n- "); p != std::string::npos;) {
+    size_t q = section.find("\n- ", p + 1);
+    std::string b = section.substr(p + 3, (q == std::string::npos ? section.size() : q) - p - 3);
+    b = std::regex_replace(b, ws, " ");
+    while (!b.empty() && b.back() == ' ') b.pop_back();
+    bullets.push_back(b);
+    p = q;
+  }
+  CHECK(bullets == evenhand::review::report_cautions());
+}
+
+TEST_CASE("report: headless Chromium loads the page and finds the charts") {
+  if (shell("command -v chromium >/dev/null 2>&1") != 0) {
+    // CI installs chromium (.ci/deps); there its absence is a failure.
+    if (std::getenv("CI")) FAIL("chromium is not installed but CI is set");
+    WARN("chromium is not installed: skipping the browser check");
+    return;
+  }
+  TempDir d;
+  demo(d);
+  std::string in = evenhand::testing::source_dir() + "/samples/helpdesk.jsonl";
+  REQUIRE(run(d, "associations --pack en-gender --in " + in + " --after " + d.file("out.jsonl") +
+                     " --field /text --field '/messages/*/content' --out " + d.file("a.json"))
+              .code == 0);
+  std::string html = d.file("report.html");
+  REQUIRE(run(d, "report --manifest " + d.file("m.json") + " --edits " + d.file("edits.jsonl") +
+                     " --associations " + d.file("a.json") + " --out " + html)
+              .code == 0);
+  std::string chrome =
+      "chromium --headless --no-sandbox --disable-gpu --user-data-dir=" + d.file("profile") +
+      " --enable-logging=stderr --v=0 ";
+  int rc = shell("timeout 120 " + chrome + "--dump-dom file://" + html + " > " +
+                 d.file("dom.html") + " 2> " + d.file("chrome.log"));
+  REQUIRE(rc == 0);
+  std::string dom = read_file(d.file("dom.html"));
+  std::string log = read_file(d.file("chrome.log"));
+  INFO(log);
+  // Console messages (script errors, refused loads under the page's policy) are logged as
+  // CONSOLE lines; a clean page has none.
+  CHECK(log.find("CONSOLE") == std::string::npos);
+  CHECK(log.find("Refused to") == std::string::npos);
+  for (const char* id : {"chart-groups-mentions", "chart-groups-records", "chart-entries",
+                         "chart-flagged", "chart-guarded", "chart-associations"}) {
+    INFO(id);
+    std::regex svg(std::string("<svg id=\"") + id + "\"[^>]*>");
+    CHECK(std::regex_search(dom, svg));
+  }
+  // The bars are there as parsed elements: the demo run's three groups, before and after.
+  std::regex bar("<rect class=\"bar (before|after)\" data-series=");
+  CHECK(std::distance(std::sregex_iterator(dom.begin(), dom.end(), bar), std::sregex_iterator()) >=
+        12);
+  // A screenshot for people to look at, kept in the build tree.
+  std::filesystem::create_directories(EVENHAND_TEST_ARTEFACTS);
+  std::string png = std::string(EVENHAND_TEST_ARTEFACTS) + "/report.png";
+  std::filesystem::remove(png);
+  rc = shell("timeout 120 " + chrome + "--window-size=1100,2400 --screenshot=" + png + " file://" +
+             html + " > /dev/null 2>&1");
+  CHECK(rc == 0);
+  std::string shot = read_file(png);
+  REQUIRE(shot.size() > 1000);
+  CHECK(shot.substr(1, 3) == "PNG");  // PNG signature (ISO/IEC 15948)
+}
