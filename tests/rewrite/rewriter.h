@@ -49,6 +49,12 @@ struct Rewriter {
     worker->rewrite(f, result);
     return apply_edits(text, result);
   }
+  // Whether the last rewrite flagged the record with `code`.
+  bool flagged(std::string_view code) const {
+    for (const auto& f : result.flags)
+      if (f.code == code) return true;
+    return false;
+  }
 };
 
 }  // namespace evenhand::testing

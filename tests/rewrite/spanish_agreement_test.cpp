@@ -8,6 +8,7 @@
 #include "pack/pack.h"
 #include "rewrite/engine.h"
 #include "rewrite/np_agreement.h"
+#include "rewrite/rewriter.h"
 
 using namespace evenhand;
 using rewrite::Gender;
@@ -16,44 +17,12 @@ using rewrite::NounPhraseAgreement;
 namespace {
 
 std::shared_ptr<const pack::CompiledPack> es_pack() {
-  std::vector<pack::Diagnostic> diags;
-  auto p = pack::load_pack("es-gender", diags);
-  REQUIRE(p.ok());
-  return *p;
+  return testing::shipped_pack("es-gender");
 }
 
-std::string apply_edits(std::string_view text, const rewrite::RecordResult& r) {
-  std::string out;
-  size_t pos = 0;
-  for (const auto& e : r.edits) {
-    out.append(text.substr(pos, e.begin - pos));
-    out.append(e.replacement);
-    pos = e.end;
-  }
-  out.append(text.substr(pos));
-  return out;
-}
-
-struct Rewriter {
-  std::unique_ptr<rewrite::Engine> engine;
-  std::unique_ptr<rewrite::Worker> worker;
-  rewrite::RecordResult result;
-  explicit Rewriter(rewrite::EngineOptions o = {}) {
-    auto e = rewrite::make_engine(es_pack(), o);
-    REQUIRE(e.ok());
-    engine = std::move(*e);
-    worker = engine->make_worker();
-  }
-  std::string operator()(std::string_view text) {
-    std::string_view f[] = {text};
-    worker->rewrite(f, result);
-    return apply_edits(text, result);
-  }
-  bool flagged(std::string_view code) const {
-    for (const auto& f : result.flags)
-      if (f.code == code) return true;
-    return false;
-  }
+// The shared test rewriter on the Spanish pack.
+struct Rewriter : testing::Rewriter {
+  explicit Rewriter(rewrite::EngineOptions o = {}) : testing::Rewriter(es_pack(), o) {}
 };
 
 struct Case {
