@@ -2,7 +2,6 @@
 // every counterfactual is the sentence the corpus generator wrote for the other gender, the
 // audit log replays (tests/external/check_run.py), and every word the run writes, and every
 // adjective form the agreement tables can write, is in the hunspell es_ES dictionary.
-#include <unistd.h>
 #include <catch2/catch.hpp>
 
 #include <fstream>
@@ -11,6 +10,7 @@
 
 #include "pack/pack.h"
 #include "rewrite/np_agreement.h"
+#include "support/hunspell.h"
 #include "support/temp_dir.h"
 
 using evenhand::testing::read_file;
@@ -44,25 +44,6 @@ TEST_CASE("augment on the Spanish demo corpus gives each record its twin") {
   CHECK(read_file(d.file("m.json")).find("\"flagged_by_reason\": {}") != std::string::npos);
 }
 
-namespace {
-
-// The words hunspell es_ES rejects among `words` (`hunspell -l` prints them one a line).
-std::set<std::string> hunspell_es_unknown(const std::set<std::string>& words, const TempDir& d) {
-  {
-    std::ofstream out(d.file("words"));
-    for (const auto& w : words) out << w << '\n';
-  }
-  REQUIRE(shell("hunspell -d es_ES -i UTF-8 -l < " + d.file("words") + " > " + d.file("unknown")) ==
-          0);
-  std::set<std::string> unknown;
-  std::istringstream in(read_file(d.file("unknown")));
-  for (std::string line; std::getline(in, line);)
-    if (!line.empty()) unknown.insert(line);
-  return unknown;
-}
-
-}  // namespace
-
 TEST_CASE("every word the Spanish demo run writes is in the hunspell es_ES dictionary") {
   // source: hunspell 1.7 with the es_ES dictionary (Debian hunspell, hunspell-es); jq (Debian
   // jq) reads the audit log.
@@ -80,11 +61,8 @@ TEST_CASE("every word the Spanish demo run writes is in the hunspell es_ES dicti
     for (std::string w; std::getline(in, w);)
       if (!w.empty()) words.insert(w);
     REQUIRE(words.size() > 20);
-    auto unknown = hunspell_es_unknown(words, d);
-    for (const auto& w : unknown) {
-      INFO("hunspell es_ES does not know '" << w << "'");
-      CHECK(false);
-    }
+    evenhand::testing::check_hunspell_exceptions(
+        evenhand::testing::hunspell_rejects(words, "es_ES"), {}, "es_ES");
   }
 }
 
@@ -98,8 +76,7 @@ TEST_CASE("every adjective form the Spanish agreement can write is in hunspell e
   auto forms = (*np)->adjective_forms();
   std::set<std::string> words(forms.begin(), forms.end());
   REQUIRE(words.size() >= 300);
-  TempDir d;
-  auto unknown = hunspell_es_unknown(words, d);
+  auto unknown = evenhand::testing::hunspell_rejects(words, "es_ES");
   // Accepted exceptions, each with its reason (the same as tests/pack/spanish_pack_test.cpp):
   const std::map<std::string, std::string> exceptions = {
       {"grandote", "augmentative of grande (-ote); productive suffix, not in the word list"},
@@ -107,12 +84,5 @@ TEST_CASE("every adjective form the Spanish agreement can write is in hunspell e
       {"grandotes", "plural of grandote, see there"},
       {"grandotas", "plural of grandota, see there"},
   };
-  for (const auto& w : unknown) {
-    INFO("hunspell es_ES does not know '" << w << "'");
-    CHECK(exceptions.count(w) == 1);
-  }
-  for (const auto& [w, why] : exceptions) {
-    INFO(w << ": " << why);
-    CHECK(unknown.count(w) == 1);
-  }
+  evenhand::testing::check_hunspell_exceptions(unknown, exceptions, "es_ES");
 }

@@ -2,15 +2,14 @@
 // has the groups female, male and neutral, is big enough, covers the definitional gender pairs
 // in both directions, maps the singular-they pronouns and the common neutral nouns, maps every
 // form back to where it came from, and spells every form as the hunspell en_US dictionary does.
-#include <unistd.h>
 #include <array>
 #include <catch2/catch.hpp>
-#include <cstdio>
 #include <fstream>
 #include <map>
 #include <set>
 
 #include "pack_test_util.h"
+#include "support/hunspell.h"
 
 using namespace evenhand;
 using namespace evenhand::pack;
@@ -338,40 +337,6 @@ TEST_CASE("every word of the shipped sets is in the hunspell en_US dictionary",
         if (t != "-" && t != "'") words.insert(t);
   REQUIRE(words.size() >= 300);
 
-  std::string tmp = (std::filesystem::temp_directory_path() /
-                     ("evenhand_pack_hunspell_words." + std::to_string(getpid()) + ".txt"))
-                        .string();  // one file per process: ctest runs test cases in parallel
-  {
-    std::ofstream out(tmp);
-    for (const auto& w : words) out << w << '\n';
-  }
-  FILE* pipe = popen(("hunspell -d en_US -i UTF-8 -l < '" + tmp + "' 2>&1").c_str(), "r");
-  REQUIRE(pipe != nullptr);
-  std::string output;
-  char buf[4096];
-  size_t n;
-  while ((n = fread(buf, 1, sizeof buf, pipe)) > 0) output.append(buf, n);
-  int status = pclose(pipe);
-  std::filesystem::remove(tmp);
-  INFO(output);
-  REQUIRE(status == 0);
-
-  std::set<std::string> unknown;
-  size_t start = 0;
-  while (start < output.size()) {
-    size_t nl = output.find('\n', start);
-    std::string line = output.substr(start, nl == std::string::npos ? nl : nl - start);
-    if (!line.empty()) unknown.insert(line);
-    if (nl == std::string::npos) break;
-    start = nl + 1;
-  }
-  for (const auto& w : unknown) {
-    INFO("hunspell en_US does not know '" << w << "'");
-    CHECK(exceptions.count(w) == 1);
-  }
-  // Every exception is still needed: it names a word of the pack that hunspell rejects.
-  for (const auto& [w, why] : exceptions) {
-    INFO(w << ": " << why);
-    CHECK(unknown.count(w) == 1);
-  }
+  evenhand::testing::check_hunspell_exceptions(evenhand::testing::hunspell_rejects(words, "en_US"),
+                                               exceptions, "en_US");
 }

@@ -1,14 +1,13 @@
 // The shipped Spanish gender pack (rules/es-gender/, built into the binary): it loads cleanly,
 // is big enough, maps the basic gender pairs and every form back to where it came from, its
 // data files are well formed and consistent, and every word is spelled as hunspell es_ES does.
-#include <unistd.h>
 #include <catch2/catch.hpp>
-#include <cstdio>
 #include <fstream>
 #include <set>
 #include <sstream>
 
 #include "pack_test_util.h"
+#include "support/hunspell.h"
 
 using namespace evenhand;
 using namespace evenhand::pack;
@@ -70,46 +69,6 @@ std::string data_file(const CompiledPack& p, const std::string& name) {
 bool ends_with(const std::string& s, const std::string& suffix) {
   return s.size() >= suffix.size() &&
          s.compare(s.size() - suffix.size(), suffix.size(), suffix) == 0;
-}
-
-// The words hunspell es_ES rejects among `words` (`hunspell -l` prints them one a line).
-std::set<std::string> hunspell_es_unknown(const std::set<std::string>& words) {
-  std::string tmp = (std::filesystem::temp_directory_path() /
-                     ("evenhand_es_pack_hunspell_words." + std::to_string(getpid()) + ".txt"))
-                        .string();  // one file per process: ctest runs test cases in parallel
-  {
-    std::ofstream out(tmp);
-    for (const auto& w : words) out << w << '\n';
-  }
-  FILE* pipe = popen(("hunspell -d es_ES -i UTF-8 -l < '" + tmp + "' 2>&1").c_str(), "r");
-  REQUIRE(pipe != nullptr);
-  std::string output;
-  char buf[4096];
-  size_t n;
-  while ((n = fread(buf, 1, sizeof buf, pipe)) > 0) output.append(buf, n);
-  int status = pclose(pipe);
-  std::filesystem::remove(tmp);
-  INFO(output);
-  REQUIRE(status == 0);
-  std::set<std::string> unknown;
-  std::istringstream in(output);
-  for (std::string line; std::getline(in, line);)
-    if (!line.empty()) unknown.insert(line);
-  return unknown;
-}
-
-// Fails on every unknown word that is not an accepted exception, and on every exception that
-// is no longer needed (it names a word that hunspell now accepts or that the pack dropped).
-void check_against_exceptions(const std::set<std::string>& unknown,
-                              const std::map<std::string, std::string>& exceptions) {
-  for (const auto& w : unknown) {
-    INFO("hunspell es_ES does not know '" << w << "'");
-    CHECK(exceptions.count(w) == 1);
-  }
-  for (const auto& [w, why] : exceptions) {
-    INFO(w << ": " << why);
-    CHECK(unknown.count(w) == 1);
-  }
 }
 
 }  // namespace
@@ -307,7 +266,8 @@ TEST_CASE("every word of the es-gender sets is in the hunspell es_ES dictionary"
       for (const auto& t : form_tokens(form))
         if (t != "-" && t != "'") words.insert(t);
   REQUIRE(words.size() >= 400);
-  check_against_exceptions(hunspell_es_unknown(words), exceptions);
+  evenhand::testing::check_hunspell_exceptions(evenhand::testing::hunspell_rejects(words, "es_ES"),
+                                               exceptions, "es_ES");
 }
 
 TEST_CASE("every word of the es-gender data files is in the hunspell es_ES dictionary",
@@ -350,5 +310,6 @@ TEST_CASE("every word of the es-gender data files is in the hunspell es_ES dicti
     if (f[0] == "noun") words.insert(f[2]);
   }
   REQUIRE(words.size() >= 250);
-  check_against_exceptions(hunspell_es_unknown(words), exceptions);
+  evenhand::testing::check_hunspell_exceptions(evenhand::testing::hunspell_rejects(words, "es_ES"),
+                                               exceptions, "es_ES");
 }
