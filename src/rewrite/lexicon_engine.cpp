@@ -144,8 +144,7 @@ class LexiconWorker final : public Worker {
   std::vector<Item> items_;
   std::string fold_;
   std::vector<text::Span> spans_;
-  std::vector<std::string_view> words_;  // folded items for the possessive model
-  std::string scratch_;
+  std::vector<std::string_view> words_;       // folded items for the possessive model
   std::vector<const pack::LexEntry*> cands_;  // entries matching at one position
   std::vector<NpToken> np_tokens_;  // items for noun-phrase agreement (packs that have it)
 };
@@ -358,6 +357,23 @@ bool LexiconWorker::is_protected(uint32_t begin, uint32_t end) const {
   return false;
 }
 
+// Case of `original` carried to `replacement`, with its apostrophe style.
+static std::string recase(std::string_view original, std::string_view replacement) {
+  std::string out;
+  text::apply_case(replacement, text::case_pattern(original), out);
+  if (original.find("\xE2\x80\x99") != std::string_view::npos) {
+    std::string curly;
+    for (char c : out) {
+      if (c == '\'')
+        curly += "\xE2\x80\x99";
+      else
+        curly += c;
+    }
+    out = std::move(curly);
+  }
+  return out;
+}
+
 void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordResult& out,
                                   bool guarded) {
   if (e_.np_) {
@@ -480,20 +496,7 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
     ed.field = field;
     ed.begin = begin;
     ed.end = end;
-    scratch_.clear();
-    text::apply_case(replacement, pattern, scratch_);
-    // Keep the writer's apostrophe style.
-    if (original.find("\xE2\x80\x99") != std::string_view::npos) {
-      std::string curly;
-      for (char c : scratch_) {
-        if (c == '\'')
-          curly += "\xE2\x80\x99";
-        else
-          curly += c;
-      }
-      scratch_ = std::move(curly);
-    }
-    ed.replacement = scratch_;
+    ed.replacement = recase(original, replacement);
     ed.reason = reason;
     ed.score = score;
     uint32_t hit =
@@ -515,23 +518,6 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
     }
     k = next;
   }
-}
-
-// Case of `original` carried to `replacement`, with its apostrophe style.
-static std::string recase(std::string_view original, std::string_view replacement) {
-  std::string out;
-  text::apply_case(replacement, text::case_pattern(original), out);
-  if (original.find("\xE2\x80\x99") != std::string_view::npos) {
-    std::string curly;
-    for (char c : out) {
-      if (c == '\'')
-        curly += "\xE2\x80\x99";
-      else
-        curly += c;
-    }
-    out = std::move(curly);
-  }
-  return out;
 }
 
 // Third-person singular auxiliaries that stand before their subject in questions and tags
