@@ -114,9 +114,10 @@ class LexiconWorker final : public Worker {
     text::TokenKind kind = text::TokenKind::punct;
     const WordSlots* slots = nullptr;  // what this folded word starts, if anything
   };
+  // Fills *cur_ from `field`.
   void prepare_field(std::string_view field);
   std::string_view folded(size_t k) const {
-    return std::string_view(fold_.data() + items_[k].fold_off, items_[k].fold_len);
+    return std::string_view(cur_->fold.data() + cur_->items[k].fold_off, cur_->items[k].fold_len);
   }
   // Length in items of a match of `words` at item k (0 if none); `clitic` gets the bytes of
   // a clitic left on the last word.
@@ -141,9 +142,15 @@ class LexiconWorker final : public Worker {
   const LexiconEngine& e_;
   text::Tokenizer tokenizer_;
   std::vector<text::Token> tokens_;
-  std::vector<Item> items_;
-  std::string fold_;
-  std::vector<text::Span> spans_;
+  // Each field of the record, prepared once (tokens, folded text, protected spans): the guard
+  // check and the matching both read them.
+  struct FieldState {
+    std::vector<Item> items;
+    std::string fold;
+    std::vector<text::Span> spans;
+  };
+  std::vector<FieldState> fields_;
+  FieldState* cur_ = nullptr;                 // the field being matched
   std::vector<std::string_view> words_;       // folded items for the possessive model
   std::vector<const pack::LexEntry*> cands_;  // entries matching at one position
   std::vector<NpToken> np_tokens_;  // items for noun-phrase agreement (packs that have it)
@@ -209,12 +216,13 @@ constexpr std::array<char, 256> kAsciiLower = [] {
 
 void LexiconWorker::prepare_field(std::string_view field) {
   tokenizer_.tokenize(field, tokens_);
-  items_.clear();
-  words_.clear();
-  items_.reserve(tokens_.size());
+  std::vector<Item>& items = cur_->items;
+  std::string& fold = cur_->fold;
+  items.clear();
+  items.reserve(tokens_.size());
   // Folding ASCII keeps the length, so the folded text fits in the field's size unless a
   // non-ASCII fold grows (U+00DF -> "ss"); the buffer then grows.
-  fold_.resize(field.size());
+  fold.resize(field.size());
   size_t fo = 0;
   const auto* src = reinterpret_cast<const unsigned char*>(field.data());
   for (const auto& t : tokens_) {
@@ -225,8 +233,8 @@ void LexiconWorker::prepare_field(std::string_view field) {
     it.kind = t.kind;
     it.fold_off = static_cast<uint32_t>(fo);
     size_t n = t.end - t.begin;
-    if (fo + n > fold_.size()) fold_.resize(std::max(2 * fold_.size(), fo + n));
-    char* d = fold_.data() + fo;
+    if (fo + n > fold.size()) fold.resize(std::max(2 * fold.size(), fo + n));
+    char* d = fold.data() + fo;
     unsigned char high = 0;
     for (size_t i = 0; i < n; ++i) {
       unsigned char c = src[t.begin + i];
@@ -236,44 +244,45 @@ void LexiconWorker::prepare_field(std::string_view field) {
     if (high & 0x80) {
       std::string f = pack::fold_word(field.substr(t.begin, n));
       n = f.size();
-      if (fo + n > fold_.size()) fold_.resize(std::max(2 * fold_.size(), fo + n));
-      std::memcpy(fold_.data() + fo, f.data(), n);
+      if (fo + n > fold.size()) fold.resize(std::max(2 * fold.size(), fo + n));
+      std::memcpy(fold.data() + fo, f.data(), n);
     }
     it.fold_len = static_cast<uint32_t>(n);
     fo += n;
     if (t.kind == text::TokenKind::word) {
-      it.slots = e_.words_.find(std::string_view(fold_.data() + it.fold_off, it.fold_len));
+      it.slots = e_.words_.find(std::string_view(fold.data() + it.fold_off, it.fold_len));
     }
-    items_.push_back(it);
+    items.push_back(it);
   }
-  fold_.resize(fo);
-  spans_.clear();
-  if (e_.protect_) e_.protect_->find(field, spans_);
+  fold.resize(fo);
+  std::vector<text::Span>& spans = cur_->spans;
+  spans.clear();
+  if (e_.protect_) e_.protect_->find(field, spans);
   // The pack's protected expressions, matched on folded tokens.
   bool added = false;
-  for (size_t k = 0; k < items_.size(); ++k) {
+  for (size_t k = 0; k < items.size(); ++k) {
     const PhraseIndex::Phrase* hit;
     size_t len;
-    if (items_[k].slots && items_[k].slots->prot && phrase_at(false, k, &hit, &len)) {
-      spans_.push_back({items_[k].begin, items_[k + len - 1].end, text::pack_phrase});
+    if (items[k].slots && items[k].slots->prot && phrase_at(false, k, &hit, &len)) {
+      spans.push_back({items[k].begin, items[k + len - 1].end, text::pack_phrase});
       added = true;
       k += len - 1;
     }
   }
   if (added) {
-    std::sort(spans_.begin(), spans_.end(),
+    std::sort(spans.begin(), spans.end(),
               [](const text::Span& a, const text::Span& b) { return a.begin < b.begin; });
   }
 }
 
 bool LexiconWorker::phrase_at(bool guard, size_t k, const PhraseIndex::Phrase** hit,
                               size_t* len) const {
-  const WordSlots* slots = items_[k].slots;
+  const WordSlots* slots = cur_->items[k].slots;
   const std::vector<PhraseIndex::Phrase>* phrases =
       slots ? (guard ? slots->guard : slots->prot) : nullptr;
   if (phrases == nullptr) return false;
   for (const auto& p : *phrases) {
-    if (k + p.tokens.size() > items_.size()) continue;
+    if (k + p.tokens.size() > cur_->items.size()) continue;
     bool ok = true;
     for (size_t j = 1; j < p.tokens.size() && ok; ++j) ok = folded(k + j) == p.tokens[j];
     if (ok) {
@@ -288,7 +297,7 @@ bool LexiconWorker::phrase_at(bool guard, size_t k, const PhraseIndex::Phrase** 
 size_t LexiconWorker::match_at(size_t k, const std::vector<std::string>& words,
                                uint32_t& clitic) const {
   clitic = 0;
-  if (k + words.size() > items_.size()) return 0;
+  if (k + words.size() > cur_->items.size()) return 0;
   for (size_t j = 0; j < words.size(); ++j) {
     std::string_view f = folded(k + j);
     if (f == words[j]) continue;
@@ -300,7 +309,7 @@ size_t LexiconWorker::match_at(size_t k, const std::vector<std::string>& words,
     for (const char* c : kClitics) is_clitic = is_clitic || rest == c;
     if (!is_clitic) return 0;
     // Bytes of the clitic as written (a curly apostrophe is three bytes, folded to one).
-    const Item& it = items_[k + j];
+    const Item& it = cur_->items[k + j];
     uint32_t written = it.end - it.begin;
     uint32_t folded_extra = static_cast<uint32_t>(f.size() - words[j].size());
     clitic = folded_extra + (written > it.fold_len ? written - it.fold_len : 0);
@@ -318,7 +327,7 @@ bool LexiconWorker::sentence_start(size_t k) const {
 void LexiconWorker::article_agreement(uint32_t field, std::string_view text, size_t k,
                                       std::string_view next_word, RecordResult& out) {
   if (k == 0 || e_.pack_->language() != "en") return;
-  const Item& art = items_[k - 1];
+  const Item& art = cur_->items[k - 1];
   if (art.kind != text::TokenKind::word || !is_indefinite_article(folded(k - 1))) return;
   std::string_view chosen = choose_article(next_word);
   if (chosen == folded(k - 1)) return;
@@ -339,8 +348,8 @@ bool LexiconWorker::surname_position(size_t k) const {
   for (const char* t : kTitles)
     if (prev == t) return true;
   // "Matthew Tanner": a capitalised first name right before makes this one a surname.
-  if (p + 1 == k && items_[p].kind == text::TokenKind::word &&
-      items_[p].end + 1 == items_[k].begin) {
+  if (p + 1 == k && cur_->items[p].kind == text::TokenKind::word &&
+      cur_->items[p].end + 1 == cur_->items[k].begin) {
     if (const auto* entries = e_.pack_->lookup(prev)) {
       for (const auto& en : *entries)
         if (en.is_name && en.words.size() == 1) return true;
@@ -350,7 +359,7 @@ bool LexiconWorker::surname_position(size_t k) const {
 }
 
 bool LexiconWorker::is_protected(uint32_t begin, uint32_t end) const {
-  for (const auto& s : spans_) {
+  for (const auto& s : cur_->spans) {
     if (s.begin >= end) break;
     if (s.end > begin) return true;
   }
@@ -380,17 +389,17 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
     // Noun-phrase agreement (Spanish) takes the whole field: determiners and adjectives are
     // rewritten only together with the person noun they agree with.
     np_tokens_.clear();
-    for (size_t k = 0; k < items_.size(); ++k)
-      np_tokens_.push_back(
-          {items_[k].begin, items_[k].end, folded(k), items_[k].kind == text::TokenKind::word});
-    NounPhraseAgreement::Field f{field, text, np_tokens_, spans_, e_.target_, guarded};
+    for (size_t k = 0; k < cur_->items.size(); ++k)
+      np_tokens_.push_back({cur_->items[k].begin, cur_->items[k].end, folded(k),
+                            cur_->items[k].kind == text::TokenKind::word});
+    NounPhraseAgreement::Field f{field, text, np_tokens_, cur_->spans, e_.target_, guarded};
     e_.np_->rewrite_field(f, out);
     return;
   }
   const pack::CompiledPack& pk = *e_.pack_;
-  for (size_t k = 0; k < items_.size(); ++k) {
-    if (items_[k].kind != text::TokenKind::word) continue;
-    const auto* entries = items_[k].slots ? items_[k].slots->lex : nullptr;
+  for (size_t k = 0; k < cur_->items.size(); ++k) {
+    if (cur_->items[k].kind != text::TokenKind::word) continue;
+    const auto* entries = cur_->items[k].slots ? cur_->items[k].slots->lex : nullptr;
     if (entries == nullptr) {
       // Try the word without a trailing clitic ("mother's" -> "mother").
       // Clitics are two or three bytes folded ('s 'd 'm, 'll 're 've).
@@ -425,8 +434,8 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
       if (en.words == first->words) cands.push_back(&en);
     }
     if (!first) continue;
-    uint32_t begin = items_[k].begin;
-    uint32_t end = items_[k + len - 1].end - clitic;
+    uint32_t begin = cur_->items[k].begin;
+    uint32_t end = cur_->items[k + len - 1].end - clitic;
     size_t next = k + len - 1;
     if (is_protected(begin, end)) {
       ++out.protected_spans;
@@ -466,8 +475,8 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
       bool decided = false;
       if (e_.model_) {
         if (words_.empty()) {
-          words_.reserve(items_.size());
-          for (size_t j = 0; j < items_.size(); ++j) words_.push_back(folded(j));
+          words_.reserve(cur_->items.size());
+          for (size_t j = 0; j < cur_->items.size(); ++j) words_.push_back(folded(j));
         }
         Decision d = e_.model_->decide(words_, k);
         pack::Tag want = d.kind == Decision::determiner ? pack::Tag::det
@@ -548,16 +557,16 @@ size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size
   const VerbTable& verbs = *e_.verbs_;
   size_t last = k + len - 1;
   auto word_at = [&](size_t j) {
-    return j < items_.size() && items_[j].kind == text::TokenKind::word;
+    return j < cur_->items.size() && cur_->items[j].kind == text::TokenKind::word;
   };
   auto raw = [&](size_t j) {
-    return text.substr(items_[j].begin, items_[j].end - items_[j].begin);
+    return text.substr(cur_->items[j].begin, cur_->items[j].end - cur_->items[j].begin);
   };
   auto agree = [&](size_t j, std::string_view form, std::string note) {
     Edit e;
     e.field = field;
-    e.begin = items_[j].begin;
-    e.end = items_[j].end;
+    e.begin = cur_->items[j].begin;
+    e.end = cur_->items[j].end;
     e.replacement = recase(raw(j), form);
     e.reason = EditReason::agreement;
     e.note = std::move(note);
@@ -566,14 +575,14 @@ size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size
   // "she and I": the subject is plural already; the verb stays. ("Tom and he" is handled
   // below: after "and" a verb that is not singular is left alone without a flag.)
   bool after_and = k > 0 && folded(k - 1) == "and";
-  if (last + 1 < items_.size() && folded(last + 1) == "and") {
+  if (last + 1 < cur_->items.size() && folded(last + 1) == "and") {
     out.edits.push_back(std::move(pronoun));
     return last;
   }
   // "she's": the clitic stands for "is" or "has".
   if (clitic > 0) {
     std::vector<std::string_view> following;
-    for (size_t j = last + 1; j < items_.size() && following.size() < 8; ++j)
+    for (size_t j = last + 1; j < cur_->items.size() && following.size() < 8; ++j)
       following.push_back(folded(j));
     auto c = verbs.resolve_s(following);
     std::string_view cl = text.substr(pronoun.end, clitic);
@@ -597,7 +606,7 @@ size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size
   // auxiliaries invert in English; a lexical verb before a subject belongs to another clause
   // ("she says he knows"). An earlier edit may already have taken that verb.
   bool verb_free = out.edits.empty() || out.edits.back().field != field ||
-                   out.edits.back().end <= items_[k - (k > 0 ? 1 : 0)].begin;
+                   out.edits.back().end <= cur_->items[k - (k > 0 ? 1 : 0)].begin;
   if (k > 0 && word_at(k - 1) && verb_free && is_inverting_auxiliary(folded(k - 1))) {
     auto a = verbs.pluralize(folded(k - 1));
     if (a.kind == VerbTable::Answer::plural) {
@@ -633,24 +642,29 @@ void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResu
   out.clear();
   out.before.assign(n_groups, 0);
   out.after.assign(n_groups, 0);
-  // Guards first: a guard anywhere in the record blocks the whole record.
+  // Every field is prepared once; a guard anywhere in the record blocks the whole record, so
+  // the guards are looked for before any field is matched.
+  if (fields_.size() < fields.size()) fields_.resize(fields.size());
   const pack::Guard* guard = nullptr;
-  if (!e_.guards_.by_first.empty()) {
-    for (size_t f = 0; f < fields.size() && !guard; ++f) {
-      prepare_field(fields[f]);
-      for (size_t k = 0; k < items_.size(); ++k) {
-        const PhraseIndex::Phrase* hit;
-        size_t len;
-        if (phrase_at(true, k, &hit, &len)) {
-          guard = &e_.pack_->guards()[hit->index];
-          break;
-        }
+  bool has_guards = !e_.guards_.by_first.empty();
+  for (size_t f = 0; f < fields.size(); ++f) {
+    cur_ = &fields_[f];
+    prepare_field(fields[f]);
+    if (guard || !has_guards) continue;
+    const std::vector<Item>& items = cur_->items;
+    for (size_t k = 0; k < items.size(); ++k) {
+      const PhraseIndex::Phrase* hit;
+      size_t len;
+      if (items[k].slots && items[k].slots->guard && phrase_at(true, k, &hit, &len)) {
+        guard = &e_.pack_->guards()[hit->index];
+        break;
       }
     }
   }
   out.guard = guard;
   for (uint32_t f = 0; f < fields.size(); ++f) {
-    if (fields.size() > 1 || e_.guards_.by_first.empty() || guard) prepare_field(fields[f]);
+    cur_ = &fields_[f];
+    words_.clear();
     field_matches(f, fields[f], out, guard != nullptr);
   }
   keep_edits_apart(out);
