@@ -11,7 +11,6 @@
 // - Mentions inside protected spans are neither counted nor edited.
 #include <algorithm>
 #include <array>
-#include <bitset>
 #include <cstring>
 #include <unordered_map>
 
@@ -74,32 +73,21 @@ struct WordSlots {
   const std::vector<PhraseIndex::Phrase>* prot = nullptr;
 };
 
-// Folded word -> WordSlots in a flat table, with a 64 Kibit two-probe Bloom filter in front:
-// most tokens are in no pack, and the filter (8 KiB, in L1 cache) turns about 95% of them
-// away without touching the table. Built once; read-only afterwards.
+// Folded word -> WordSlots in a flat table (whose filter turns most tokens, which are in no
+// pack, away without reading a slot). Built once; read-only afterwards.
 class WordIndex {
  public:
   WordSlots& operator[](const std::string& key) { return build_[key]; }
   void freeze() {
     table_.reserve(build_.size());
-    for (auto& [key, v] : build_) {
-      uint64_t h = WordHash{}(key);
-      filter_[(h >> 48) & 0xffff] = true;
-      filter_[(h >> 32) & 0xffff] = true;
-      table_.emplace(key, v);
-    }
+    for (auto& [key, v] : build_) table_.emplace(key, v);
     build_.clear();
   }
-  const WordSlots* find(std::string_view key) const {
-    uint64_t h = WordHash{}(key);
-    if (!filter_[(h >> 48) & 0xffff] || !filter_[(h >> 32) & 0xffff]) return nullptr;
-    return table_.find(key, h);
-  }
+  const WordSlots* find(std::string_view key) const { return table_.find(key); }
 
  private:
   std::unordered_map<std::string, WordSlots, WordHash, std::equal_to<>> build_;
   FlatStringMap<WordSlots> table_;
-  std::bitset<65536> filter_;
 };
 
 class LexiconWorker final : public Worker {
