@@ -23,10 +23,26 @@ struct WordHash {
       h = (h ^ v) * 0xff51afd7ed558ccdULL;
       h ^= h >> 32;
     }
-    // The tail byte by byte: a memcpy of variable length is a library call here.
+    // The 0-7 tail bytes, little-endian in the low bytes of v, read with fixed-size loads
+    // (a memcpy of variable length is a library call, a byte loop was a tenth of the engine's
+    // instructions): the last 8 bytes shifted down when the string has them, else two
+    // overlapping loads, whose shared bytes agree.
+    size_t rest = s.size() - i;
+    const auto* p = reinterpret_cast<const unsigned char*>(s.data());
     uint64_t v = 0;
-    for (unsigned shift = 0; i < s.size(); ++i, shift += 8)
-      v |= static_cast<uint64_t>(static_cast<unsigned char>(s[i])) << shift;
+    if (rest == 0) {
+    } else if (s.size() >= 8) {
+      std::memcpy(&v, p + s.size() - 8, 8);
+      v >>= 8 * (8 - rest);
+    } else if (rest >= 4) {
+      uint32_t lo, hi;
+      std::memcpy(&lo, p, 4);
+      std::memcpy(&hi, p + rest - 4, 4);
+      v = lo | (static_cast<uint64_t>(hi) << (8 * (rest - 4)));
+    } else {
+      v = p[0] | (static_cast<uint64_t>(p[rest / 2]) << (8 * (rest / 2))) |
+          (static_cast<uint64_t>(p[rest - 1]) << (8 * (rest - 1)));
+    }
     h = (h ^ v) * 0xc4ceb9fe1a85ec53ULL;
     return static_cast<size_t>(h ^ (h >> 29));
   }
