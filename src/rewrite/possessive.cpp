@@ -111,8 +111,8 @@ class Lexicon {
   }
   // Category of a folded word, or "w" for an open-class word.
   std::string_view cat(std::string_view folded) const {
-    auto it = map_.find(folded);
-    return it == map_.end() ? std::string_view("w") : it->second;
+    const std::string_view* c = map_.find(folded);
+    return c == nullptr ? std::string_view("w") : *c;
   }
 
  private:
@@ -125,7 +125,7 @@ class Lexicon {
       pos = end + 1;
     }
   }
-  std::unordered_map<std::string_view, std::string_view> map_;
+  FlatStringMap<std::string_view> map_;  // probed for every window word of every decision
 };
 
 const Lexicon& lexicon() {
