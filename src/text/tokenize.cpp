@@ -71,6 +71,20 @@ inline bool firm_boundary(const unsigned char* p, size_t i) {
   return true;
 }
 
+// Length (3) of a character at p[q] that UAX #29 gives the class Other and that is common in
+// prose, or 0: U+2013 EN DASH, U+2014 EM DASH, U+201C and U+201D double quotation marks,
+// U+2026 HORIZONTAL ELLIPSIS (WordBreakProperty.txt lists none of them, so they are Other).
+// Only when ASCII or the end follows: an Other character then stands alone (no rule joins it
+// to either side; WB4 could attach only a non-ASCII Extend, Format or ZWJ after it), and as
+// context it acts as the ends of a text do, so each side can be segmented on its own.
+size_t lone_other(const unsigned char* p, size_t q, size_t n) {
+  if (q + 3 > n || p[q] != 0xE2 || p[q + 1] != 0x80) return 0;
+  unsigned char c = p[q + 2];
+  bool other = c == 0x93 || c == 0x94 || c == 0x9C || c == 0x9D || c == 0xA6;
+  if (!other || (q + 3 < n && p[q + 3] >= 0x80)) return 0;
+  return 3;
+}
+
 size_t find_non_ascii(const unsigned char* p, size_t from, size_t n) {
   size_t i = from;
   for (; i + 8 <= n; i += 8) {
@@ -264,6 +278,12 @@ void Tokenizer::tokenize(std::string_view text, std::vector<Token>& out) {
     if (q == n) {
       impl_->ascii_append(text, pos, n, out);
       break;
+    }
+    if (size_t len = lone_other(p, q, n)) {
+      impl_->ascii_append(text, pos, q, out);
+      out.push_back(Token{uint32_t(q), uint32_t(q + len), TokenKind::punct});
+      pos = q + len;
+      continue;
     }
     size_t b = q;
     while (b > pos && !firm_boundary(p, b)) --b;

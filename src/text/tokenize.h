@@ -33,7 +33,9 @@ class Tokenizer {
   Tokenizer& operator=(const Tokenizer&) = delete;
 
   // Replaces `out` with the tokens of `text` (valid UTF-8), in order, tiling the text.
-  // Runs of ASCII take the fast path; stretches holding other bytes go through ICU.
+  // Runs of ASCII take the fast path, and so do dashes, double quotation marks and the
+  // ellipsis (U+2013 U+2014 U+201C U+201D U+2026) when ASCII follows them; stretches holding
+  // other non-ASCII characters go through ICU.
   // Ill-formed UTF-8 still yields tiling tokens (ICU reads bad bytes as U+FFFD).
   // Offsets are 32-bit: `text` must be shorter than 2 GiB.
   void tokenize(std::string_view text, std::vector<Token>& out);

@@ -137,10 +137,11 @@ TEST_CASE("mixed ASCII and non-ASCII: chunked path equals ICU on random strings"
   // Pieces that exercise the chunk edges: marks (Extend), ZWJ, soft hyphen (Format),
   // regional indicators, ideographs (dictionary segmentation), Hebrew, Thai, wide spaces.
   const std::vector<std::string> pieces = {
-      "a",      "Z",      "7",      "_",      ".",          "'",          ",",      ":",
-      "@",      " ",      " ",      "\t",     "\n",         "\r",         "-",      "\u00e9",
-      "\u2019", "\u0301", "\u200d", "\u00ad", "\u00a0",     "\u3000",     "\u2003", "\u65e5\u672c",
-      "\u05d0", "\u05f3", "\u0e01", "\u30ab", "\U0001F1EB", "\U0001F44D", "\u0661", "\uff0e"};
+      "a", "Z", "7", "_", ".", "'", ",", ":", "@", " ", " ", "\t", "\n", "\r", "-", "\u00e9",
+      "\u2019", "\u0301", "\u200d", "\u00ad", "\u00a0", "\u3000", "\u2003", "\u65e5\u672c",
+      "\u05d0", "\u05f3", "\u0e01", "\u30ab", "\U0001F1EB", "\U0001F44D", "\u0661", "\uff0e",
+      // Prose punctuation that the fast path takes itself when ASCII follows.
+      "\u201c", "\u201d", "\u2013", "\u2014", "\u2026", "\u2018"};
   std::mt19937 rng(7);
   std::uniform_int_distribution<int> len(0, 16), pick(0, int(pieces.size()) - 1);
   Tokenizer fast, ref;
@@ -154,6 +155,18 @@ TEST_CASE("mixed ASCII and non-ASCII: chunked path equals ICU on random strings"
     INFO("input: \"" << s << "\"");
     REQUIRE(tiles(s, a));
     REQUIRE(render(s, a) == render(s, b));
+  }
+}
+
+TEST_CASE("prose punctuation outside ICU agrees with ICU", "[tokenize]") {
+  // The fast path takes U+2013 U+2014 U+201C U+201D U+2026 itself when ASCII follows; the
+  // reference is ICU's word break iterator on the whole string (tokenize_icu).
+  for (const char* s :
+       {"\u201cHer mother\u2019s\u2014no.\u201d", "a\u2013b 1\u20132 \u2026and so\u2026",
+        "\u201c\u201d\u201c", "x\u2014\u00e9t\u00e9", "\u201d\u0301a", "\u2014\u200d\U0001F44D",
+        "it\u2019s\u2026 \u201c'quoted'\u201d", "end\u2014"}) {
+    INFO(s);
+    CHECK(seg(s) == seg_icu(s));
   }
 }
 
