@@ -208,41 +208,50 @@ void LexiconWorker::prepare_field(std::string_view field) {
   std::string& fold = cur_->fold;
   items.clear();
   items.reserve(tokens_.size());
-  // Folding ASCII keeps the length, so the folded text fits in the field's size unless a
-  // non-ASCII fold grows (U+00DF -> "ss"); the buffer then grows.
-  fold.resize(field.size());
-  size_t fo = 0;
+  // The field is lower-cased (ASCII) as a whole, so a token's folded text sits at the
+  // token's own offsets; a token with non-ASCII bytes is folded by pack::fold_word (which may
+  // change its length) and its folded text appended after the field's.
+  const size_t size = field.size();
   const auto* src = reinterpret_cast<const unsigned char*>(field.data());
+  fold.resize(size);
+  char* d = fold.data();
+  uint64_t high = 0;
+  size_t i = 0;
+  for (; i + 8 <= size; i += 8) {
+    uint64_t v;
+    std::memcpy(&v, src + i, 8);
+    high |= v;
+    v = text::ascii_lower8(v);
+    std::memcpy(d + i, &v, 8);
+  }
+  for (; i < size; ++i) {
+    high |= src[i];
+    d[i] = kAsciiLower[src[i]];
+  }
+  const bool all_ascii = (high & 0x8080808080808080ULL) == 0;
   for (const auto& t : tokens_) {
     if (t.kind == text::TokenKind::space) continue;
     Item it;
     it.begin = t.begin;
     it.end = t.end;
     it.kind = t.kind;
-    it.fold_off = static_cast<uint32_t>(fo);
-    size_t n = t.end - t.begin;
-    if (fo + n > fold.size()) fold.resize(std::max(2 * fold.size(), fo + n));
-    char* d = fold.data() + fo;
-    unsigned char high = 0;
-    for (size_t i = 0; i < n; ++i) {
-      unsigned char c = src[t.begin + i];
-      high |= c;
-      d[i] = kAsciiLower[c];
+    it.fold_off = t.begin;
+    it.fold_len = t.end - t.begin;
+    if (!all_ascii) {
+      unsigned char token_high = 0;
+      for (uint32_t k = t.begin; k < t.end; ++k) token_high |= src[k];
+      if (token_high & 0x80) {
+        std::string f = pack::fold_word(field.substr(t.begin, t.end - t.begin));
+        it.fold_off = static_cast<uint32_t>(fold.size());
+        it.fold_len = static_cast<uint32_t>(f.size());
+        fold += f;
+      }
     }
-    if (high & 0x80) {
-      std::string f = pack::fold_word(field.substr(t.begin, n));
-      n = f.size();
-      if (fo + n > fold.size()) fold.resize(std::max(2 * fold.size(), fo + n));
-      std::memcpy(fold.data() + fo, f.data(), n);
-    }
-    it.fold_len = static_cast<uint32_t>(n);
-    fo += n;
     if (t.kind == text::TokenKind::word) {
       it.slots = e_.words_.find(std::string_view(fold.data() + it.fold_off, it.fold_len));
     }
     items.push_back(it);
   }
-  fold.resize(fo);
   std::vector<text::Span>& spans = cur_->spans;
   spans.clear();
   if (e_.protect_) e_.protect_->find(field, spans);

@@ -2,6 +2,7 @@
 // replacement (she -> he, She -> He, SHE -> HE). ASCII fast paths; ICU for everything else.
 #pragma once
 
+#include <cstdint>
 #include <string>
 #include <string_view>
 
@@ -33,6 +34,18 @@ void apply_case(std::string_view replacement, CasePattern pattern, std::string& 
 // case_pattern(original), except that for a mixed original ("McDonald") whose first cased
 // letter is upper the replacement's first letter is title-cased too (best effort).
 void match_case(std::string_view replacement, std::string_view original, std::string& out);
+
+// ASCII lower-casing of eight bytes at once (a uint64_t as loaded from memory): bytes 'A'..'Z'
+// gain 0x20, every other byte (non-ASCII ones included) stays. No carry crosses a byte: after
+// the mask every byte is below 0x80, and adding 0x3F or 0x25 keeps it below 0x100.
+inline uint64_t ascii_lower8(uint64_t v) {
+  constexpr uint64_t kHigh = 0x8080808080808080ULL;
+  uint64_t low7 = v & ~kHigh;
+  uint64_t ge_a = low7 + 0x3F3F3F3F3F3F3F3FULL;  // high bit set where the byte is >= 'A'
+  uint64_t gt_z = low7 + 0x2525252525252525ULL;  // high bit set where the byte is > 'Z'
+  uint64_t upper = (ge_a ^ gt_z) & ~v & kHigh;
+  return v | (upper >> 2);
+}
 
 // Reference paths that always go through ICU (no ASCII fast path). Same results as the
 // functions above; exposed so tests can check the fast paths against ICU.

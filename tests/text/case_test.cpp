@@ -176,3 +176,23 @@ TEST_CASE("fold_case matches Unicode CaseFolding.txt", "[case][external]") {
   }
   CHECK(checked > 1400);  // CaseFolding 15.0 has about 1,500 C and F lines
 }
+
+TEST_CASE("ascii_lower8 lowers A-Z in every byte position and nothing else", "[case]") {
+  // Reference: the ASCII table (common practice: 'A'..'Z' are 0x41..0x5A, lower case is
+  // +0x20), one byte at a time. Every byte value in every position, amid random neighbours.
+  std::mt19937_64 rng(42);
+  for (int pos = 0; pos < 8; ++pos) {
+    for (int b = 0; b < 256; ++b) {
+      uint64_t v = rng();
+      v = (v & ~(uint64_t{0xff} << (8 * pos))) | (uint64_t(b) << (8 * pos));
+      uint64_t want = 0;
+      for (int k = 0; k < 8; ++k) {
+        uint64_t c = (v >> (8 * k)) & 0xff;
+        if (c >= 'A' && c <= 'Z') c += 0x20;
+        want |= c << (8 * k);
+      }
+      INFO("byte " << b << " at position " << pos);
+      REQUIRE(evenhand::text::ascii_lower8(v) == want);
+    }
+  }
+}
