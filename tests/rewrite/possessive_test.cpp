@@ -11,6 +11,7 @@
 #include <filesystem>
 #include <fstream>
 #include <functional>
+#include <iostream>
 #include <map>
 #include <sstream>
 #include <string>
@@ -293,13 +294,24 @@ struct Accuracy {
   double value() const { return total ? static_cast<double>(right) / total : 0.0; }
 };
 
+// Writes a missed decision with its context to stderr (the cross-validation does, when
+// EVENHAND_POSSESSIVE_CV_MISSES is set).
+void print_miss(const BrownFile& f, const BrownSentence& s, size_t i, int gold, Decision d) {
+  std::string context;
+  for (size_t k = i >= 4 ? i - 4 : 0; k < std::min(s.words.size(), i + 4); ++k) {
+    context += (k == i ? "[" : "") + s.words[k] + "/" + s.tags[k] + (k == i ? "] " : " ");
+  }
+  std::cerr << "miss " << f.id << " gold " << decision_kind_name(static_cast<Decision::Kind>(gold))
+            << " got " << decision_kind_name(d.kind) << " (" << d.score << "): " << context << "\n";
+}
+
 // Accuracy of `model` on "her" (PP$ / PPO) and "his" (PP$ / PP$$) in the files `use` accepts
 // (by default the even-numbered ones).
 void evaluate(
     const PossessiveModel& model, const std::vector<BrownFile>& files, Accuracy& her, Accuracy& his,
-    const std::function<bool(const BrownFile&)>& use = [](const BrownFile& f) {
-      return !is_training_file(f);
-    }) {
+    const std::function<bool(const BrownFile&)>& use =
+        [](const BrownFile& f) { return !is_training_file(f); },
+    bool list_misses = false) {
   std::vector<std::string_view> view;
   for (const BrownFile& f : files) {
     if (!use(f)) continue;
@@ -319,7 +331,38 @@ void evaluate(
         }
         if (gold < 0) continue;  // other words, and the few untagged ("nil") sentences
         ++acc->total;
-        if (model.decide(view, i).kind == gold) ++acc->right;
+        Decision d = model.decide(view, i);
+        if (d.kind == gold) {
+          ++acc->right;
+        } else if (list_misses) {
+          print_miss(f, s, i, gold, d);
+        }
+      }
+    }
+  }
+}
+
+// Accuracy on the unambiguous pronouns of the files `use` accepts (him me them us as objects,
+// my your our their its and "his" as determiners, with their tags as the answer): the model's
+// own task, without the noise of Brown's "her" tags.
+void evaluate_other_pronouns(const PossessiveModel& model, const std::vector<BrownFile>& files,
+                             Accuracy& acc, const std::function<bool(const BrownFile&)>& use,
+                             bool list_misses) {
+  std::vector<std::string_view> view;
+  for (const BrownFile& f : files) {
+    if (!use(f)) continue;
+    for (const BrownSentence& s : f.sentences) {
+      view.assign(s.words.begin(), s.words.end());
+      for (size_t i = 0; i < s.words.size(); ++i) {
+        int gold = training_class(s.words[i], s.tags[i]);
+        if (gold != Decision::determiner && gold != Decision::object) continue;
+        ++acc.total;
+        Decision d = model.decide(view, i);
+        if (d.kind == gold) {
+          ++acc.right;
+        } else if (list_misses) {
+          print_miss(f, s, i, gold, d);
+        }
       }
     }
   }
@@ -394,7 +437,11 @@ const char* kRuleModel =
     "evenhand-possessive-model 1\n"
     "scale 1\n"
     "classes determiner object standalone\n"
-    "words 12\n"
+    "words 16\n"
+    "along\tin\n"
+    "arrested\tvbn\n"
+    "broken\tvbn\n"
+    "in\tin\n"
     "deeply\trb\n"
     "face\tnn\n"
     "going\tvbg\n"
@@ -426,7 +473,9 @@ TEST_CASE("possessive: the rules that come before the weights", "[possessive]") 
   };
   // Before a finite form of be/have/do or a modal that is not also a noun.
   // Before an adverb or particle not followed by a nominal; before an article, pronoun,
-  // subordinator or "to"; before a day word; before a verbal "-ing" form with a complement.
+  // subordinator or "to"; before a day word; before a verbal "-ing" form with a complement;
+  // after have/get/make/see/... before a past participle (or an unknown "-ed" word) that no
+  // nominal follows. "his" before a preposition.
   const std::vector<Case> by_rule = {
       {"a rage of [his] would follow", Decision::standalone},
       {"a lamp of [his] had been red", Decision::standalone},
@@ -438,6 +487,10 @@ TEST_CASE("possessive: the rules that come before the weights", "[possessive]") 
       {"he told [her] that it was late", Decision::object},
       {"we dine with [her] tomorrow night", Decision::object},
       {"the idea of [her] going out alone", Decision::object},
+      {"the keeper had [her] arrested .", Decision::object},
+      {"the pilot got [her] acquitted in the end", Decision::object},
+      {"a friend of [his] in town", Decision::standalone},
+      {"he brought [his] along", Decision::standalone},
   };
   for (const Case& c : by_rule) {
     INFO(c.sentence);
@@ -447,12 +500,15 @@ TEST_CASE("possessive: the rules that come before the weights", "[possessive]") 
   }
   // Not by rule: a nominal follows the adverb; "back" and "every" are left to the weights; an
   // unknown "-ly" word before a comma or before an unknown word; a gerund without a complement;
-  // these rules are for "her" only; "will" is a noun too.
-  for (const char* s : {"she raised [her] deeply lined face", "he rubbed [her] back briefly",
-                        "he met [her] every wish", "she walked in [her] portly , grand way",
-                        "he eyed [her] warily and left", "she stopped [her] going .",
-                        "it was [his] going out that hurt", "he read [her] will aloud",
-                        "the lamp was [his] up there"}) {
+  // these rules are for "her" only; "will" is a noun too; a participle before a nominal or
+  // after a verb not on the list; "her" before a preposition is left to the weights.
+  for (const char* s :
+       {"she raised [her] deeply lined face", "he rubbed [her] back briefly",
+        "he met [her] every wish", "she walked in [her] portly , grand way",
+        "he eyed [her] warily and left", "she stopped [her] going .",
+        "it was [his] going out that hurt", "he read [her] will aloud",
+        "the lamp was [his] up there", "he had [her] broken lamp", "she got [her] arrested lamp",
+        "he dreamed [her] acquitted", "we saw [her] in town"}) {
     INFO(s);
     CHECK(decide_marked(m, s).score != rule);
   }
@@ -693,14 +749,15 @@ TEST_CASE("possessive: accuracy on the held-out Brown Corpus files", "[possessiv
                                                     << his.total << " = " << his.value());
   // Majority baselines on the same files are about 0.63 (her) and 0.994 (his). The issue asks
   // for floors of 0.93 ("her") and 0.994 ("his"), aims 0.95 and 0.997. Measured for the shipped
-  // model: her 1290/1391 = 0.9274, his 3655/3672 = 0.9954. "her" misses the issue's floor by
-  // four examples; the floor here is 0.92 so that the suite stays usable while that stays an
-  // open item of the issue (the README and the closing note say so), and it still fails on
-  // any real regression of the model. The even files were evaluated twice while the model
-  // was made (the first time: her 1285, his 3658), and once more only to list the final
-  // misses; all choices came from cross-validation inside the odd files (her 1551/1645, his
-  // 3315/3322). Brown's "her" tags are noisy (see possessive.h): about 68 of the 101 "her"
-  // misses are tag errors, mostly PPO before a possessed noun.
+  // model and rules: her 1292/1391 = 0.9288, his 3656/3672 = 0.9956. "her" misses the issue's
+  // floor by two examples; the floor here is 0.92 so that the suite stays usable while that
+  // stays an open item of the issue (the README and the closing note say so), and it still
+  // fails on any real regression of the model. The even files have been evaluated four times
+  // (possessive.h lists them: her 1285, then 1290 twice, then 1292 with the participle and
+  // "his"-before-preposition rules); all choices came from cross-validation inside the odd
+  // files (her 1551/1645, his 3315/3322). Brown's "her" tags are noisy (see possessive.h):
+  // about 68 of the 101 "her" misses of the previous model were tag errors, mostly PPO before a
+  // possessed noun.
   REQUIRE(her.total > 1000);
   REQUIRE(his.total > 3000);
   REQUIRE(her.value() >= 0.92);  // issue floor 0.93: not met yet, see above
@@ -741,7 +798,9 @@ TEST_CASE("possessive: train the model from the odd Brown files", "[.train]") {
 
 // Development aid, not a check: 4-fold cross-validation inside the odd-numbered files (fold =
 // position of the file among the odd files, modulo 4), the only measurement used to choose the
-// model's features and rules. rules/tools/train-possessive.sh --cv runs it.
+// model's features and rules. rules/tools/train-possessive.sh --cv runs it. Besides "her" and
+// "his" it measures the unambiguous pronouns of the held-out folds (the training task, with
+// clean tags); EVENHAND_POSSESSIVE_CV_MISSES=1 lists every miss on stderr.
 TEST_CASE("possessive: cross-validation inside the odd Brown files", "[.cv]") {
   const auto& files = brown();
   std::map<std::string, int> fold_of;
@@ -749,7 +808,9 @@ TEST_CASE("possessive: cross-validation inside the odd Brown files", "[.cv]") {
   for (const BrownFile& f : files) {
     if (is_training_file(f)) fold_of[f.id] = odd_index++ % 4;
   }
-  Accuracy her_all, his_all;
+  const char* misses = std::getenv("EVENHAND_POSSESSIVE_CV_MISSES");
+  const bool list_misses = misses && *misses;
+  Accuracy her_all, his_all, other_all;
   for (int fold = 0; fold < 4; ++fold) {
     auto in_fold = [&](const BrownFile& f) {
       auto it = fold_of.find(f.id);
@@ -761,7 +822,8 @@ TEST_CASE("possessive: cross-validation inside the odd Brown files", "[.cv]") {
     auto model = PossessiveModel::parse(text, "cv.model");
     REQUIRE(model.ok());
     Accuracy her, his;
-    evaluate(*model.value(), files, her, his, in_fold);
+    evaluate(*model.value(), files, her, his, in_fold, list_misses);
+    evaluate_other_pronouns(*model.value(), files, other_all, in_fold, list_misses);
     WARN("fold " << fold << ": her " << her.right << "/" << her.total << ", his " << his.right
                  << "/" << his.total);
     her_all.right += her.right;
@@ -771,6 +833,7 @@ TEST_CASE("possessive: cross-validation inside the odd Brown files", "[.cv]") {
   }
   WARN("cross-validation on the odd files: her "
        << her_all.right << "/" << her_all.total << " = " << her_all.value() << ", his "
-       << his_all.right << "/" << his_all.total << " = " << his_all.value());
+       << his_all.right << "/" << his_all.total << " = " << his_all.value()
+       << "; other pronouns (determiner / object) " << other_all.right << "/" << other_all.total);
   CHECK(her_all.total > 1000);
 }
