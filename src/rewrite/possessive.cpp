@@ -758,8 +758,20 @@ Decision PossessiveModel::decide(std::span<const std::string_view> words, size_t
     // along". Odd Brown files, all possessives before a word whose class is "in" (excluding
     // "her"): 6 PP$$ / 1 PP$, a tag error ("her mouth on his/PP$ in the green"). No change in
     // the cross-validation; "her" there (PPO 90 / PP$ 1 in the odd files) is left to the weights.
+    // Left out: "inside", "outside" and "near" before a nominal, which are adjectives there
+    // ("his inside pocket", "his near neighbour"); common practice of English grammar.
     if (target == Target::his && next.is_word && word_class_of(next.text()) == "in") {
-      return Decision{Decision::standalone, kRuleScore};
+      bool adjective = false;
+      if (in_list(next.text(), {"inside", "outside", "near"})) {
+        std::string_view after_class = "</s>";
+        if (i + 2 < words.size()) {
+          Tok after;
+          normalise(words[i + 2], after);
+          after_class = after.is_word ? word_class_of(after.text()) : after.symbol;
+        }
+        adjective = nominal_class(after_class);
+      }
+      if (!adjective) return Decision{Decision::standalone, kRuleScore};
     }
   }
   std::array<int64_t, 3> scores{};

@@ -45,7 +45,8 @@
 //     between have/get/make/see/hear/find/keep/leave/want/watch/feel and a past participle
 //     that no nominal follows ("got her acquitted", "had her arrested");
 //   - "his" before a preposition (a word whose class is "in") is standalone ("brought his
-//     along", "a friend of his in town").
+//     along", "a friend of his in town"), except inside/outside/near before a nominal, which
+//     are adjectives there ("his inside pocket").
 // Weights are the integer form of the average (c * w - u, as in Daume's "A Course in Machine
 // Learning"), so training has no floating point and writes the same bytes on every run (fixed
 // seeds, own Fisher-Yates shuffle over std::mt19937_64, features written in byte order).
@@ -75,7 +76,9 @@
 // Measured on the even-numbered files against Brown's tags (evaluated four times in all: twice
 // while the model was made, once before the "possessed" share and the five-seed sum, her 1285,
 // his 3658, then that model, her 1290, his 3655; a third pass only listed that model's misses
-// for the analysis below; the fourth is the shipped method, with the last two rules):
+// for the analysis below; the fourth is the shipped method, with the last two rules; the
+// "inside/outside/near" exception was added afterwards for text outside Brown, not chosen by
+// these figures, and the test run after it printed the same two numbers):
 //   "her": 1292 of 1391 right = 92.88% (majority baseline "determiner": 63%; previous models
 //          1290 and 1289) -- still below the 93% floor asked for and the 95% aimed at;
 //   "his": 3656 of 3672 right = 99.56% (baseline 99.4%; previous model 3655) -- below 99.7%.

@@ -508,7 +508,8 @@ TEST_CASE("possessive: the rules that come before the weights", "[possessive]") 
         "he eyed [her] warily and left", "she stopped [her] going .",
         "it was [his] going out that hurt", "he read [her] will aloud",
         "the lamp was [his] up there", "he had [her] broken lamp", "she got [her] arrested lamp",
-        "he dreamed [her] acquitted", "we saw [her] in town"}) {
+        "he dreamed [her] acquitted", "we saw [her] in town", "he reached into [his] inside pocket",
+        "she wrote to [his] near neighbour"}) {
     INFO(s);
     CHECK(decide_marked(m, s).score != rule);
   }
