@@ -1,7 +1,7 @@
 // A read-mostly hash map from strings to values with open addressing: the keys live in one
-// arena and each slot keeps its key's full hash, and a two-probe Bloom filter of 8 bits per
-// slot (one byte per slot, small enough to stay in cache) turns most absent keys away before
-// any slot is read. Built once, then shared read-only by threads (find() is const and does
+// arena and each slot keeps its key's full hash, and a blocked Bloom filter (4 bits per slot,
+// two bits of one 64-bit word per key, so one load a probe) turns most absent keys away
+// before any slot is read. Built once, then shared read-only by threads (find() is const and does
 // not allocate); for the large lexicons and feature tables probed per token.
 #pragma once
 
@@ -69,30 +69,31 @@ class FlatStringMap {
   std::string_view key_of(const Slot& s) const {
     return std::string_view(arena_.data() + s.off, s.len1 - 1);
   }
-  // The filter's two bits for a hash: taken from the high bits and from a remix, so that
-  // they do not repeat the low bits that choose the slot.
-  std::pair<size_t, size_t> bits(uint64_t h) const {
-    uint64_t h2 = h * 0x9E3779B97F4A7C15ULL;
-    return {static_cast<size_t>(h >> 40) & filter_mask_,
-            static_cast<size_t>(h2 >> 40) & filter_mask_};
+  // The filter word and the word's bit mask for a hash: the word from a remix of the hash,
+  // the two bits from its top twelve bits, neither repeating the low bits that choose the
+  // slot.
+  std::pair<size_t, uint64_t> bits(uint64_t h) const {
+    size_t word = static_cast<size_t>((h * 0x9E3779B97F4A7C15ULL) >> 32) & filter_mask_;
+    uint64_t mask = (uint64_t{1} << ((h >> 52) & 63)) | (uint64_t{1} << (h >> 58));
+    return {word, mask};
   }
   void mark(uint64_t h) {
-    auto [a, b] = bits(h);
-    filter_[a >> 6] |= uint64_t{1} << (a & 63);
-    filter_[b >> 6] |= uint64_t{1} << (b & 63);
+    auto [word, mask] = bits(h);
+    filter_[word] |= mask;
   }
   bool maybe(uint64_t h) const {
-    auto [a, b] = bits(h);
-    return ((filter_[a >> 6] >> (a & 63)) & (filter_[b >> 6] >> (b & 63)) & 1) != 0;
+    auto [word, mask] = bits(h);
+    return (filter_[word] & mask) == mask;
   }
   void rehash(size_t cap) {
     std::vector<Slot> old = std::move(slots_);
     slots_.assign(cap, Slot{});
     mask_ = cap - 1;
-    // 8 filter bits per slot, at most half the slots full: a false positive rate near 1.4%
-    // when full (two probes, 16 bits per key), lower before.
-    filter_.assign(cap / 8, 0);
-    filter_mask_ = cap * 8 - 1;
+    // 4 filter bits per slot and at most half the slots full: at least 8 bits per key, a
+    // false positive rate of about 5% when full (two bits per key within a 64-bit word),
+    // lower before.
+    filter_.assign(cap / 16, 0);
+    filter_mask_ = cap / 16 - 1;
     for (Slot& s : old) {
       if (s.len1 == 0) continue;
       mark(s.hash);
@@ -103,7 +104,7 @@ class FlatStringMap {
   }
 
   std::vector<Slot> slots_;
-  std::vector<uint64_t> filter_;  // cap * 8 bits
+  std::vector<uint64_t> filter_;  // cap * 4 bits
   size_t filter_mask_ = 0;
   std::string arena_;
   size_t size_ = 0;
