@@ -203,7 +203,7 @@ constexpr std::array<char, 256> kAsciiLower = [] {
 }();
 
 void LexiconWorker::prepare_field(std::string_view field) {
-  tokenizer_.tokenize(field, tokens_);
+  tokenizer_.tokenize_without_space(field, tokens_);
   std::vector<Item>& items = cur_->items;
   std::string& fold = cur_->fold;
   items.clear();
@@ -230,7 +230,6 @@ void LexiconWorker::prepare_field(std::string_view field) {
   }
   const bool all_ascii = (high & 0x8080808080808080ULL) == 0;
   for (const auto& t : tokens_) {
-    if (t.kind == text::TokenKind::space) continue;
     Item it;
     it.begin = t.begin;
     it.end = t.end;

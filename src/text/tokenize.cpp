@@ -6,6 +6,7 @@
 #include <unicode/uchar.h>
 #include <unicode/utext.h>
 
+#include <algorithm>
 #include <array>
 #include <cstring>
 
@@ -171,6 +172,7 @@ struct Tokenizer::Impl {
   // joining "mother's", "e.g"), a run of U+0020 (WB3d), CR LF (WB3), and single bytes that
   // no rule joins to the next one. Tokens that touch digits or '_' (WB8-WB13b) go through the
   // pairwise rules in general_end(). The random-string tests check this against ICU.
+  template <bool kKeepSpace = true>
   void ascii_append(std::string_view text, size_t b, size_t e, std::vector<Token>& out) const {
     const auto* p = reinterpret_cast<const unsigned char*>(text.data());
     size_t i = b;
@@ -210,7 +212,8 @@ struct Tokenizer::Impl {
         if (c0 == kCR && i < e && p[i] == '\n') ++i;
         kind = ascii_space(p[start]) ? TokenKind::space : TokenKind::punct;
       }
-      out.push_back(Token{uint32_t(start), uint32_t(i), kind});
+      if (kKeepSpace || kind != TokenKind::space)
+        out.push_back(Token{uint32_t(start), uint32_t(i), kind});
     }
   }
 
@@ -268,7 +271,8 @@ struct Tokenizer::Impl {
 Tokenizer::Tokenizer() : impl_(std::make_unique<Impl>()) {}
 Tokenizer::~Tokenizer() = default;
 
-void Tokenizer::tokenize(std::string_view text, std::vector<Token>& out) {
+template <bool kKeepSpace>
+void Tokenizer::run(std::string_view text, std::vector<Token>& out) {
   out.clear();
   const auto* p = reinterpret_cast<const unsigned char*>(text.data());
   size_t n = text.size(), pos = 0;
@@ -276,11 +280,11 @@ void Tokenizer::tokenize(std::string_view text, std::vector<Token>& out) {
   while (pos < n) {
     size_t q = find_non_ascii(p, pos, n);
     if (q == n) {
-      impl_->ascii_append(text, pos, n, out);
+      impl_->ascii_append<kKeepSpace>(text, pos, n, out);
       break;
     }
     if (size_t len = lone_other(p, q, n)) {
-      impl_->ascii_append(text, pos, q, out);
+      impl_->ascii_append<kKeepSpace>(text, pos, q, out);
       out.push_back(Token{uint32_t(q), uint32_t(q + len), TokenKind::punct});
       pos = q + len;
       continue;
@@ -289,10 +293,24 @@ void Tokenizer::tokenize(std::string_view text, std::vector<Token>& out) {
     while (b > pos && !firm_boundary(p, b)) --b;
     size_t e = q + 1;
     while (e < n && !firm_boundary(p, e)) ++e;
-    impl_->ascii_append(text, pos, b, out);
+    impl_->ascii_append<kKeepSpace>(text, pos, b, out);
+    size_t from = out.size();
     impl_->icu_append(text, b, e, out);
+    if (!kKeepSpace) {
+      out.erase(std::remove_if(out.begin() + std::ptrdiff_t(from), out.end(),
+                               [](const Token& t) { return t.kind == TokenKind::space; }),
+                out.end());
+    }
     pos = e;
   }
+}
+
+void Tokenizer::tokenize(std::string_view text, std::vector<Token>& out) {
+  run<true>(text, out);
+}
+
+void Tokenizer::tokenize_without_space(std::string_view text, std::vector<Token>& out) {
+  run<false>(text, out);
 }
 
 void Tokenizer::tokenize_icu(std::string_view text, std::vector<Token>& out) {

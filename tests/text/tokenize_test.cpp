@@ -170,6 +170,29 @@ TEST_CASE("prose punctuation outside ICU agrees with ICU", "[tokenize]") {
   }
 }
 
+TEST_CASE("tokenize_without_space gives tokenize's tokens minus the space ones", "[tokenize]") {
+  // Random mixed strings as above (ASCII, non-ASCII through ICU, and the fast-path punctuation).
+  const std::vector<std::string> pieces = {
+      "a",      "Z",      "7",      ".",      "'",      " ",      "  ",     "\t",     "\r\n",
+      "\u00a0", "\u3000", "\u2003", "\u00e9", "\u2019", "\u201c", "\u2014", "\u0301", "-"};
+  std::mt19937 rng(11);
+  std::uniform_int_distribution<int> len(0, 16), pick(0, int(pieces.size()) - 1);
+  Tokenizer tk;
+  std::vector<Token> all, some;
+  for (int n = 0; n < 5000; ++n) {
+    std::string s;
+    int l = len(rng);
+    for (int k = 0; k < l; ++k) s += pieces[size_t(pick(rng))];
+    tk.tokenize(s, all);
+    tk.tokenize_without_space(s, some);
+    std::vector<Token> want;
+    for (const Token& t : all)
+      if (t.kind != TokenKind::space) want.push_back(t);
+    INFO("input: \"" << s << "\"");
+    REQUIRE(render(s, some) == render(s, want));
+  }
+}
+
 TEST_CASE("tokens tile ill-formed UTF-8 too", "[tokenize]") {
   Tokenizer tk;
   std::vector<Token> toks;
