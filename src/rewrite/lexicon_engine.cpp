@@ -346,7 +346,8 @@ bool LexiconWorker::surname_position(size_t k) const {
   // "Matthew Tanner": a capitalised first name right before makes this one a surname.
   if (p + 1 == k && cur_->items[p].kind == text::TokenKind::word &&
       cur_->items[p].end + 1 == cur_->items[k].begin) {
-    if (const auto* entries = e_.pack_->lookup(prev)) {
+    const WordSlots* slots = e_.words_.find(prev);
+    if (const auto* entries = slots ? slots->lex : nullptr) {
       for (const auto& en : *entries)
         if (en.is_name && en.words.size() == 1) return true;
     }
@@ -408,7 +409,8 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
       } else {
         continue;
       }
-      entries = pk.lookup(f.substr(0, apos));
+      const WordSlots* stem = e_.words_.find(f.substr(0, apos));  // same entries as pk.lookup()
+      entries = stem ? stem->lex : nullptr;
       if (entries == nullptr) continue;
     }
     // The longest entry that matches here, and every entry with the same words.
