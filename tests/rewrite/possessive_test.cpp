@@ -305,57 +305,21 @@ void print_miss(const BrownFile& f, const BrownSentence& s, size_t i, int gold, 
             << " got " << decision_kind_name(d.kind) << " (" << d.score << "): " << context << "\n";
 }
 
-// Accuracy of `model` on "her" (PP$ / PPO) and "his" (PP$ / PP$$) in the files `use` accepts
-// (by default the even-numbered ones).
-void evaluate(
-    const PossessiveModel& model, const std::vector<BrownFile>& files, Accuracy& her, Accuracy& his,
-    const std::function<bool(const BrownFile&)>& use =
-        [](const BrownFile& f) { return !is_training_file(f); },
-    bool list_misses = false) {
+// Scores model.decide() at every word of the files `use` accepts whose gold class
+// gold_of(word, tag) gives (-1: not scored), into the Accuracy that account(word) names.
+template <typename Gold, typename Account>
+void score_tokens(const PossessiveModel& model, const std::vector<BrownFile>& files,
+                  const std::function<bool(const BrownFile&)>& use, bool list_misses,
+                  Gold&& gold_of, Account&& account) {
   std::vector<std::string_view> view;
   for (const BrownFile& f : files) {
     if (!use(f)) continue;
     for (const BrownSentence& s : f.sentences) {
       view.assign(s.words.begin(), s.words.end());
       for (size_t i = 0; i < s.words.size(); ++i) {
-        const std::string& w = s.words[i];
-        const std::string& t = s.tags[i];
-        int gold = -1;
-        Accuracy* acc = nullptr;
-        if (w == "her") {
-          acc = &her;
-          gold = t == "pp$" ? Decision::determiner : t == "ppo" ? Decision::object : -1;
-        } else if (w == "his") {
-          acc = &his;
-          gold = t == "pp$" ? Decision::determiner : t == "pp$$" ? Decision::standalone : -1;
-        }
-        if (gold < 0) continue;  // other words, and the few untagged ("nil") sentences
-        ++acc->total;
-        Decision d = model.decide(view, i);
-        if (d.kind == gold) {
-          ++acc->right;
-        } else if (list_misses) {
-          print_miss(f, s, i, gold, d);
-        }
-      }
-    }
-  }
-}
-
-// Accuracy on the unambiguous pronouns of the files `use` accepts (him me them us as objects,
-// my your our their its and "his" as determiners, with their tags as the answer): the model's
-// own task, without the noise of Brown's "her" tags.
-void evaluate_other_pronouns(const PossessiveModel& model, const std::vector<BrownFile>& files,
-                             Accuracy& acc, const std::function<bool(const BrownFile&)>& use,
-                             bool list_misses) {
-  std::vector<std::string_view> view;
-  for (const BrownFile& f : files) {
-    if (!use(f)) continue;
-    for (const BrownSentence& s : f.sentences) {
-      view.assign(s.words.begin(), s.words.end());
-      for (size_t i = 0; i < s.words.size(); ++i) {
-        int gold = training_class(s.words[i], s.tags[i]);
-        if (gold != Decision::determiner && gold != Decision::object) continue;
+        int gold = gold_of(s.words[i], s.tags[i]);
+        if (gold < 0) continue;
+        Accuracy& acc = account(s.words[i]);
         ++acc.total;
         Decision d = model.decide(view, i);
         if (d.kind == gold) {
@@ -366,6 +330,39 @@ void evaluate_other_pronouns(const PossessiveModel& model, const std::vector<Bro
       }
     }
   }
+}
+
+// Accuracy of `model` on "her" (PP$ / PPO) and "his" (PP$ / PP$$) in the files `use` accepts
+// (by default the even-numbered ones).
+void evaluate(
+    const PossessiveModel& model, const std::vector<BrownFile>& files, Accuracy& her, Accuracy& his,
+    const std::function<bool(const BrownFile&)>& use =
+        [](const BrownFile& f) { return !is_training_file(f); },
+    bool list_misses = false) {
+  auto gold_of = [](const std::string& w, const std::string& t) -> int {
+    // Other words, and the few untagged ("nil") sentences, are not scored.
+    if (w == "her") return t == "pp$" ? Decision::determiner : t == "ppo" ? Decision::object : -1;
+    if (w == "his") {
+      return t == "pp$" ? Decision::determiner : t == "pp$$" ? Decision::standalone : -1;
+    }
+    return -1;
+  };
+  score_tokens(model, files, use, list_misses, gold_of,
+               [&](const std::string& w) -> Accuracy& { return w == "her" ? her : his; });
+}
+
+// Accuracy on the unambiguous pronouns of the files `use` accepts (him me them us as objects,
+// my your our their its and "his" as determiners, with their tags as the answer): the model's
+// own task, without the noise of Brown's "her" tags.
+void evaluate_other_pronouns(const PossessiveModel& model, const std::vector<BrownFile>& files,
+                             Accuracy& acc, const std::function<bool(const BrownFile&)>& use,
+                             bool list_misses) {
+  auto gold_of = [](const std::string& w, const std::string& t) -> int {
+    int gold = training_class(w, t);
+    return gold == Decision::determiner || gold == Decision::object ? gold : -1;
+  };
+  score_tokens(model, files, use, list_misses, gold_of,
+               [&](const std::string&) -> Accuracy& { return acc; });
 }
 
 const std::vector<BrownFile>& brown() {
