@@ -133,6 +133,14 @@ TEST_CASE("ASCII fast path equals ICU on random ASCII strings", "[tokenize]") {
   }
 }
 
+// A random string of 0 to 16 pieces drawn from `pieces`.
+static std::string random_pieces(const std::vector<std::string>& pieces, std::mt19937& rng) {
+  std::uniform_int_distribution<int> len(0, 16), pick(0, int(pieces.size()) - 1);
+  std::string s;
+  for (int k = len(rng); k > 0; --k) s += pieces[size_t(pick(rng))];
+  return s;
+}
+
 TEST_CASE("mixed ASCII and non-ASCII: chunked path equals ICU on random strings", "[tokenize]") {
   // Pieces that exercise the chunk edges: marks (Extend), ZWJ, soft hyphen (Format),
   // regional indicators, ideographs (dictionary segmentation), Hebrew, Thai, wide spaces.
@@ -143,13 +151,10 @@ TEST_CASE("mixed ASCII and non-ASCII: chunked path equals ICU on random strings"
       // Prose punctuation that the fast path takes itself when ASCII follows.
       "\u201c", "\u201d", "\u2013", "\u2014", "\u2026", "\u2018"};
   std::mt19937 rng(7);
-  std::uniform_int_distribution<int> len(0, 16), pick(0, int(pieces.size()) - 1);
   Tokenizer fast, ref;
   std::vector<Token> a, b;
   for (int n = 0; n < 20000; ++n) {
-    std::string s;
-    int l = len(rng);
-    for (int k = 0; k < l; ++k) s += pieces[size_t(pick(rng))];
+    std::string s = random_pieces(pieces, rng);
     fast.tokenize(s, a);
     ref.tokenize_icu(s, b);
     INFO("input: \"" << s << "\"");
@@ -176,13 +181,10 @@ TEST_CASE("tokenize_without_space gives tokenize's tokens minus the space ones",
       "a",      "Z",      "7",      ".",      "'",      " ",      "  ",     "\t",     "\r\n",
       "\u00a0", "\u3000", "\u2003", "\u00e9", "\u2019", "\u201c", "\u2014", "\u0301", "-"};
   std::mt19937 rng(11);
-  std::uniform_int_distribution<int> len(0, 16), pick(0, int(pieces.size()) - 1);
   Tokenizer tk;
   std::vector<Token> all, some;
   for (int n = 0; n < 5000; ++n) {
-    std::string s;
-    int l = len(rng);
-    for (int k = 0; k < l; ++k) s += pieces[size_t(pick(rng))];
+    std::string s = random_pieces(pieces, rng);
     tk.tokenize(s, all);
     tk.tokenize_without_space(s, some);
     std::vector<Token> want;
