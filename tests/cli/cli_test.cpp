@@ -66,7 +66,7 @@ TEST_CASE("version and help on every command") {
   REQUIRE(run(d, "run --no-such-option").code == kUsage);
 }
 
-TEST_CASE("malformed JSON names file and line; no output is left") {
+TEST_CASE("malformed JSON names file and line, and no output is left") {
   TempDir d;
   std::string in = d.file("in.jsonl");
   write_file(in, "{\"text\":\"ok\"}\n{\"text\":\"no end\"\n");
@@ -95,13 +95,14 @@ TEST_CASE("invalid UTF-8 in a selected field is rejected") {
   REQUIRE(r.err.find(in + ":2: invalid UTF-8") != std::string::npos);
 }
 
-TEST_CASE("a record over --max-record-bytes is rejected; skip counts and drops it") {
+TEST_CASE("a record over --max-record-bytes is rejected, and skip counts and drops it") {
   TempDir d;
   std::string in = d.file("in.jsonl");
   write_file(in, "{\"text\":\"" + std::string(2000, 'a') + "\"}\n{\"text\":\"short\"}\n");
   auto r = run(d, passthrough(d, in, "--max-record-bytes 1K"));
   REQUIRE(r.code == kInput);
-  REQUIRE(r.err.find(in + ":1: record of 2012 bytes is over --max-record-bytes 1024") !=
+  // The record is the line without its line break: 9 + 2000 + 2 bytes.
+  REQUIRE(r.err.find(in + ":1: record of 2011 bytes is over --max-record-bytes 1024") !=
           std::string::npos);
   auto s = run(
       d, passthrough(d, in,
@@ -177,7 +178,7 @@ TEST_CASE("an output that names an input is refused") {
   REQUIRE(read_file(in) == "{\"text\":\"x\"}\n");
 }
 
-TEST_CASE("stdin and stdout work as - ; quarantine keeps raw lines") {
+TEST_CASE("stdin and stdout work as -, and quarantine keeps raw lines") {
   TempDir d;
   std::string in = d.file("in.jsonl");
   write_file(in, "{\"text\":\"a\"}\nnot json\n{\"text\":\"b\"}\n");
@@ -246,7 +247,7 @@ TEST_CASE("check reports every problem of a broken pack with file:line, and run 
   REQUIRE(ok.out.find("ok") != std::string::npos);
 }
 
-TEST_CASE("run refuses a draft pack; check still validates it") {
+TEST_CASE("run refuses a draft pack, and check still validates it") {
   TempDir d;
   std::filesystem::create_directories(d.file("pack"));
   write_file(d.file("pack/pack.txt"),

@@ -85,7 +85,7 @@ TEST_CASE("sink: round trips through Source for every compression", "[sink]") {
   }
 }
 
-TEST_CASE("sink: explicit compression overrides the name; zstd workers", "[sink]") {
+TEST_CASE("sink: explicit compression overrides the name, and zstd workers", "[sink]") {
   TempDir dir;
   const std::string data = sample_data(3 << 20, 21);
   SinkOptions opt;
@@ -143,7 +143,7 @@ TEST_CASE("sink: our gzip output passes the gzip command", "[sink][gzip]") {
   }
 }
 
-TEST_CASE("sink: nothing under the final name before commit; abort cleans up", "[sink]") {
+TEST_CASE("sink: nothing under the final name before commit, and abort cleans up", "[sink]") {
   TempDir dir;
   const std::string path = dir.file("result.jsonl");
 

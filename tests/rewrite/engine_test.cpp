@@ -184,7 +184,7 @@ TEST_CASE("toward neutral flags a verb it cannot settle") {
   REQUIRE(rw.result.flags.empty());
 }
 
-TEST_CASE("themselves instead of themself on request; toward one binary group") {
+TEST_CASE("themselves instead of themself on request, and toward one binary group") {
   rewrite::EngineOptions o;
   o.toward = 2;
   o.themselves = true;

@@ -171,7 +171,7 @@ TEST_CASE("toward neutral: what cannot be settled is flagged, not guessed", "[ne
   CHECK(rw.result.flags[0].code == "unsettled_contraction");
 }
 
-TEST_CASE("themselves on request; toward female and male", "[neutral][table]") {
+TEST_CASE("themselves on request, and toward female and male", "[neutral][table]") {
   rewrite::EngineOptions o;
   o.toward = 2;
   o.themselves = true;
