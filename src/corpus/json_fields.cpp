@@ -255,6 +255,11 @@ Status FieldSelector::Impl::run(std::string_view rec, std::vector<FieldMatch>& m
   od::json_type type;
   if (auto e = doc.type().get(type)) return json_error(e);
   if (type != od::json_type::object) {
+    // On demand, the type comes from the first byte alone ("not json" reads as null): a
+    // full parse tells a broken record from a valid non-object one. Rare, so not reused.
+    simdjson::dom::parser full;
+    simdjson::dom::element ignored;
+    if (auto e = full.parse(buffer.data(), rec.size(), false).get(ignored)) return json_error(e);
     return input_error(std::string("record is not a JSON object (found ") + type_name(type) + ")");
   }
   uint32_t begin = 0;

@@ -310,6 +310,12 @@ TEST_CASE("a record must be a JSON object", "[corpus][fields][errors]") {
   CHECK(select_error(sel, R"("text")") == "record is not a JSON object (found string)");
   CHECK(select_error(sel, "true") == "record is not a JSON object (found boolean)");
   CHECK(select_error(sel, "null") == "record is not a JSON object (found null)");
+  // What only starts like a value is broken JSON, not a value of another type (RFC 8259
+  // section 3: the literal names are exactly true, false and null).
+  for (const char* broken : {"not json", "nul", "truth", "[1,", "\"open", "42x"}) {
+    INFO(broken);
+    CHECK(select_error(sel, broken).rfind("invalid JSON: ", 0) == 0);
+  }
 }
 
 TEST_CASE("invalid UTF-8 is refused inside and outside selected fields",
