@@ -27,7 +27,9 @@ check_tools() {
       die "/usr/bin/time is missing: install the Debian package 'time'"
     fi
   fi
-  /usr/bin/time -v true 2>&1 | grep -q "Maximum resident set size" ||
+  # grep without -q: -q may stop reading early, and under pipefail the SIGPIPE of the writer
+  # would read as "not GNU time".
+  /usr/bin/time -v true 2>&1 | grep "Maximum resident set size" > /dev/null ||
     die "/usr/bin/time is not GNU time (no -v report)"
   [[ -x "$EVENHAND" ]] ||
     die "$EVENHAND not found: cmake --preset release && cmake --build --preset release"

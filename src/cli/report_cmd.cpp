@@ -1,8 +1,9 @@
 // `evenhand report`: writes one self-contained HTML page about a run from its manifest and,
-// optionally, its audit log (a sample of diffs, guarded and flagged records) and an
-// association audit. The page appears under its final name only when complete.
+// optionally, its audit log (a sample of diffs, guarded and flagged records; read in two
+// streaming passes) and an association audit. The page appears under its final name only
+// when complete.
 #include <fstream>
-#include <sstream>
+#include <vector>
 
 #include "base/sha256.h"
 #include "cli/cli.h"
@@ -17,14 +18,21 @@ namespace evenhand::cli {
 
 namespace {
 
-// SHA-256 and size of a file the report read, for its "Inputs and outputs" table.
+// SHA-256 and size of a file the report read, for its "Inputs and outputs" table; the file
+// streams through the hash.
 Result<review::ReportFile> describe(const std::string& role, const std::string& path) {
   std::ifstream f(path, std::ios::binary);
   if (!f) return make_error(ErrorKind::input, path, "cannot read");
-  std::stringstream ss;
-  ss << f.rdbuf();
-  std::string bytes = ss.str();
-  return review::ReportFile{role, path, sha256_hex(bytes), bytes.size()};
+  Sha256 hash;
+  uint64_t size = 0;
+  std::vector<char> buf(1 << 16);
+  while (f) {
+    f.read(buf.data(), static_cast<std::streamsize>(buf.size()));
+    hash.update(buf.data(), static_cast<size_t>(f.gcount()));
+    size += static_cast<uint64_t>(f.gcount());
+  }
+  if (f.bad()) return make_error(ErrorKind::input, path, "cannot read");
+  return review::ReportFile{role, path, hash.finish_hex(), size};
 }
 
 }  // namespace
@@ -81,26 +89,36 @@ int report_command(const std::vector<std::string>& args) {
   Status s = add_read("report input: manifest", manifest);
   if (!s.ok()) return report(s.error());
 
-  std::vector<review::ReviewRecord> records;
+  // Two passes over the audit log: the first counts and keeps the first guarded and flagged
+  // records, the second keeps the sample's candidates; memory does not grow with the log.
+  std::vector<review::ReviewRecord> guarded, flagged, chosen;
   if (!edits.empty()) {
-    auto log = review::read_audit_log(edits);
-    if (!log.ok()) return report(log.error());
-    records = std::move(*log);
+    review::StratifiedSampler sampler(sample, seed);
+    s = review::for_each_review_record(edits, [&](review::ReviewRecord& r) {
+      if (!r.edits.empty()) {
+        ++in.sample_from;
+        sampler.count(r);
+      }
+      if (!r.guard.empty() && in.guarded_total++ < review::kReportListed) guarded.push_back(r);
+      if (!r.flags.empty() && in.flagged_total++ < review::kReportListed) flagged.push_back(r);
+      return ok_status();
+    });
+    if (!s.ok()) return report(s.error());
     s = add_read("report input: audit log", edits);
     if (!s.ok()) return report(s.error());
-    std::vector<size_t> rewritten;
-    for (size_t i = 0; i < records.size(); ++i) {
-      if (!records[i].edits.empty()) rewritten.push_back(i);
-      if (!records[i].guard.empty()) in.guarded.push_back(&records[i]);
-      if (!records[i].flags.empty()) in.flagged.push_back(&records[i]);
-    }
-    in.sample_from = rewritten.size();
-    std::vector<review::ReviewRecord*> chosen;
-    for (size_t i : review::stratified_sample(records, rewritten, sample, seed))
-      chosen.push_back(&records[i]);
-    s = review::attach_sources(chosen, layout);
+    s = review::for_each_review_record(edits, [&](review::ReviewRecord& r) {
+      if (!r.edits.empty()) sampler.offer(r);
+      return ok_status();
+    });
     if (!s.ok()) return report(s.error());
-    in.sample.assign(chosen.begin(), chosen.end());
+    chosen = sampler.take();
+    std::vector<review::ReviewRecord*> wanted;
+    for (auto& r : chosen) wanted.push_back(&r);
+    s = review::attach_sources(wanted, layout);
+    if (!s.ok()) return report(s.error());
+    for (const auto& r : guarded) in.guarded.push_back(&r);
+    for (const auto& r : flagged) in.flagged.push_back(&r);
+    for (const auto& r : chosen) in.sample.push_back(&r);
   }
   std::optional<review::AssociationReport> ar;
   if (!assoc.empty()) {

@@ -1,5 +1,6 @@
 // `evenhand review`: shows the records an audit log talks about, with their edits drawn
 // against the corpus text, filtered and optionally sampled. Colour only on a terminal.
+// Streams: two passes over the log, memory bounded by a batch or the sample.
 #include <sys/ioctl.h>
 #include <unistd.h>
 
@@ -105,17 +106,18 @@ int review_command(const std::vector<std::string>& args) {
   rc = corpus_layout("review", mv ? &*mv : nullptr, format, paragraphs, root, layout);
   if (rc >= 0) return rc;
 
-  auto log = review::read_audit_log(edits);
-  if (!log.ok()) return report(log.error());
-  auto& records = *log;
-  std::vector<size_t> chosen;
-  for (size_t i = 0; i < records.size(); ++i)
-    if (review::passes(records[i], filter)) chosen.push_back(i);
-  size_t matched = chosen.size();
-  if (sample > 0) chosen = review::stratified_sample(records, chosen, sample, seed);
-  std::vector<review::ReviewRecord*> wanted;
-  for (size_t i : chosen) wanted.push_back(&records[i]);
-  Status s = review::attach_sources(wanted, layout);
+  // Pass 1 checks the whole log before anything is printed, counts it and, with --sample,
+  // counts the pack entries the sample's strata are drawn from.
+  uint64_t total = 0, matched = 0;
+  review::StratifiedSampler sampler(sample, seed);
+  Status s = review::for_each_review_record(edits, [&](review::ReviewRecord& r) {
+    ++total;
+    if (review::passes(r, filter)) {
+      ++matched;
+      sampler.count(r);
+    }
+    return ok_status();
+  });
   if (!s.ok()) return report(s.error());
 
   bool tty = isatty(STDOUT_FILENO);
@@ -125,14 +127,47 @@ int review_command(const std::vector<std::string>& args) {
   style.columns = layout_name == "columns";
   style.width = width ? width : terminal_width(tty);
   style.show_rules = !no_rules;
-  std::string out;
-  for (const auto* r : wanted) {
-    out += review::render_terminal(*r, style);
-    out += '\n';
+
+  // Pass 2 prints the records (all matching ones a batch at a time, or the sample) with
+  // their corpus text; memory is one batch or the sampler's candidates.
+  review::SourceAttacher attacher(layout);
+  std::vector<review::ReviewRecord> batch;
+  uint64_t shown = 0;
+  auto flush = [&]() -> Status {
+    std::vector<review::ReviewRecord*> wanted;
+    for (auto& r : batch) wanted.push_back(&r);
+    Status a = attacher.attach(wanted);
+    if (!a.ok()) return a;
+    std::string out;
+    for (const auto* r : wanted) {
+      out += review::render_terminal(*r, style);
+      out += '\n';
+    }
+    shown += batch.size();
+    batch.clear();
+    std::cout << out;
+    if (!std::cout) return make_error(ErrorKind::output, "", "cannot write standard output");
+    return ok_status();
+  };
+  const size_t kBatch = 256;
+  s = review::for_each_review_record(edits, [&](review::ReviewRecord& r) -> Status {
+    if (!review::passes(r, filter)) return ok_status();
+    if (sample > 0) {
+      sampler.offer(r);
+      return ok_status();
+    }
+    batch.push_back(std::move(r));
+    return batch.size() < kBatch ? ok_status() : flush();
+  });
+  if (s.ok() && sample > 0) batch = sampler.take();
+  if (s.ok()) s = flush();
+  if (!s.ok()) {
+    if (s.error().kind == ErrorKind::output) return kOutput;
+    return report(s.error());
   }
-  out += "shown " + std::to_string(wanted.size()) + " of " + std::to_string(matched) +
-         " matching records (" + std::to_string(records.size()) + " in the log)\n";
-  std::cout << out << std::flush;
+  std::cout << "shown " << shown << " of " << matched << " matching records (" << total
+            << " in the log)\n"
+            << std::flush;
   return std::cout ? kOk : kOutput;
 }
 

@@ -42,9 +42,16 @@ Result<LoggedEdit> parse_edit(element e) {
 
 }  // namespace
 
-Result<std::vector<ReviewRecord>> read_audit_log(const std::string& path) {
+Status for_each_review_record(const std::string& path,
+                              const std::function<Status(ReviewRecord&)>& fn) {
   simdjson::dom::parser parser;
-  std::vector<ReviewRecord> out;
+  std::optional<ReviewRecord> cur;
+  Status handed = ok_status();  // an Error from `fn`, returned as it is
+  auto hand_over = [&]() {
+    if (cur) handed = fn(*cur);
+    cur.reset();
+    return handed.ok();
+  };
   CorpusLayout lines;
   lines.max_record_bytes = 64u << 20;
   auto read = for_each_record(path, lines, [&](const corpus::RawRecord& raw) -> Result<bool> {
@@ -58,14 +65,14 @@ Result<std::vector<ReviewRecord>> read_audit_log(const std::string& path) {
     if (!get_string(doc, "input", input) || !get_uint(doc, "line", line) ||
         !get_string(doc, "action", action))
       return fail("audit line lacks 'input', 'line' or 'action'");
-    if (out.empty() || out.back().input != input || out.back().line != line) {
-      ReviewRecord r;
-      r.input = input;
-      r.line = line;
-      r.log_line = raw.line;
-      out.push_back(std::move(r));
+    if (!cur || cur->input != input || cur->line != line) {
+      if (!hand_over()) return false;
+      cur.emplace();
+      cur->input = input;
+      cur->line = line;
+      cur->log_line = raw.line;
     }
-    ReviewRecord& r = out.back();
+    ReviewRecord& r = *cur;
     if (action == "added" || action == "replaced") {
       simdjson::dom::array edits;
       if (doc["edits"].get_array().get(edits)) return fail("'edits' is missing or not an array");
@@ -98,6 +105,18 @@ Result<std::vector<ReviewRecord>> read_audit_log(const std::string& path) {
     return true;
   });
   if (!read.ok()) return std::move(read).error();
+  if (!handed.ok()) return handed;
+  hand_over();
+  return handed;
+}
+
+Result<std::vector<ReviewRecord>> read_audit_log(const std::string& path) {
+  std::vector<ReviewRecord> out;
+  Status s = for_each_review_record(path, [&](ReviewRecord& r) {
+    out.push_back(std::move(r));
+    return ok_status();
+  });
+  if (!s.ok()) return std::move(s).error();
   return out;
 }
 

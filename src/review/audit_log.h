@@ -1,9 +1,10 @@
-// Reading an audit log (`run --edits`) back for review: every line is checked for the shape
-// the pipeline writes, and the lines about one source record are joined into one
-// ReviewRecord. A line that does not parse is an Error naming the log file, line and reason.
+// Reading an audit log (`run --edits`) back for review, streaming: every line is checked for
+// the shape the pipeline writes, and the lines about one source record are joined into one
+// ReviewRecord, handed over one at a time. A bad line is an Error naming file, line, reason.
 #pragma once
 
 #include <cstdint>
+#include <functional>
 #include <optional>
 #include <string>
 #include <vector>
@@ -49,8 +50,14 @@ struct ReviewRecord {
   std::string raw;
 };
 
-// Reads the whole log (plain, zstd or gzip). Adjacent lines about the same (input, line)
-// are joined, as the pipeline writes a flag line right before the edits of that record.
+// Calls `fn(record)` for every record of the log (plain, zstd or gzip) in log order, holding
+// one record at a time. Adjacent lines about the same (input, line) are joined, as the
+// pipeline writes a flag line right before the edits of that record. `fn` may move from its
+// argument; an Error from `fn` stops the reading and is returned as it is.
+Status for_each_review_record(const std::string& path,
+                              const std::function<Status(ReviewRecord&)>& fn);
+
+// Every record of the log in one vector (a convenience for small logs and tests).
 Result<std::vector<ReviewRecord>> read_audit_log(const std::string& path);
 
 }  // namespace evenhand::review

@@ -483,17 +483,19 @@ std::string render_report(const ReportInput& in) {
              "No record was flagged.");
   if (!in.flagged.empty()) {
     h += "<table><tr><th>record</th><th>flags</th><th>outcome</th></tr>";
-    size_t shown = 0;
-    for (const auto* r : in.flagged) {
-      if (++shown > 50) break;
+    size_t shown = std::min(in.flagged.size(), kReportListed);
+    for (size_t i = 0; i < shown; ++i) {
+      const ReviewRecord* r = in.flagged[i];
       std::string fl;
       for (const auto& f : r->flags) fl += esc(f.code) + ": " + esc(f.detail) + "<br>";
       h += "<tr><td class=\"ptr\">" + esc(r->input) + ":" + std::to_string(r->line) + "</td><td>" +
            fl + "</td><td>" + esc(r->flag_outcome) + "</td></tr>";
     }
     h += "</table>";
-    if (in.flagged.size() > 50)
-      h += "<p class=\"muted\">The first 50 of " + std::to_string(in.flagged.size()) + ".</p>";
+    size_t total = std::max(in.flagged_total, in.flagged.size());
+    if (total > shown)
+      h += "<p class=\"muted\">The first " + std::to_string(shown) + " of " +
+           std::to_string(total) + ".</p>";
   }
   h += "</section>\n";
 
@@ -509,14 +511,18 @@ std::string render_report(const ReportInput& in) {
              "No record was guarded.");
   if (!in.guarded.empty()) {
     h += "<table><tr><th>record</th><th>reason</th><th>phrase</th><th>rule</th></tr>";
-    size_t shown = 0;
-    for (const auto* r : in.guarded) {
-      if (++shown > 50) break;
+    size_t shown = std::min(in.guarded.size(), kReportListed);
+    for (size_t i = 0; i < shown; ++i) {
+      const ReviewRecord* r = in.guarded[i];
       h += "<tr><td class=\"ptr\">" + esc(r->input) + ":" + std::to_string(r->line) + "</td><td>" +
            esc(r->guard) + "</td><td>" + esc(r->guard_phrase) + "</td><td class=\"ptr\">" +
            esc(r->guard_rule) + "</td></tr>";
     }
     h += "</table>";
+    size_t total = std::max(in.guarded_total, in.guarded.size());
+    if (total > shown)
+      h += "<p class=\"muted\">The first " + std::to_string(shown) + " of " +
+           std::to_string(total) + ".</p>";
   }
   h += "</section>\n";
 

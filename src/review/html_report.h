@@ -4,6 +4,7 @@
 // pure function of its input, so the same run gives the same bytes.
 #pragma once
 
+#include <cstddef>
 #include <string>
 #include <utility>
 #include <vector>
@@ -20,15 +21,20 @@ struct ReportFile {
 };
 
 struct ReportInput {
-  const ManifestView* manifest = nullptr;    // required
-  std::vector<const ReviewRecord*> sample;   // diffs to show (sources attached)
-  size_t sample_from = 0;                    // records of the log with edits
-  std::vector<const ReviewRecord*> guarded;  // guarded records of the log
-  std::vector<const ReviewRecord*> flagged;  // flagged records of the log
+  const ManifestView* manifest = nullptr;   // required
+  std::vector<const ReviewRecord*> sample;  // diffs to show (sources attached)
+  size_t sample_from = 0;                   // records of the log with edits
+  // The first kReportListed guarded and flagged records of the log, and how many there are.
+  std::vector<const ReviewRecord*> guarded;
+  std::vector<const ReviewRecord*> flagged;
+  size_t guarded_total = 0, flagged_total = 0;
   const AssociationReport* associations = nullptr;
   std::vector<ReportFile> read;       // files the report itself read
   std::vector<std::string> cautions;  // shown verbatim (plain text, `code` marked)
 };
+
+// Guarded and flagged records listed on the page, each list in log order; the rest are counted.
+inline constexpr size_t kReportListed = 50;
 
 // The cautions of the README ("## Cautions"), as plain-text paragraphs.
 const std::vector<std::string>& report_cautions();

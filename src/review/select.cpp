@@ -35,58 +35,86 @@ bool passes(const ReviewRecord& r, const Filter& f) {
   return false;
 }
 
-std::vector<size_t> stratified_sample(const std::vector<ReviewRecord>& records,
-                                      const std::vector<size_t>& candidates, size_t n,
-                                      uint64_t seed) {
-  if (n >= candidates.size()) return candidates;
-  std::map<std::string, size_t> rule_count;
-  for (size_t i : candidates)
-    for (const auto& e : records[i].edits)
-      if (!e.rule.empty()) ++rule_count[e.rule];
-  auto stratum = [&](const ReviewRecord& r) {
-    std::string best;
-    size_t best_n = 0;
-    for (const auto& e : r.edits) {
-      if (e.rule.empty()) continue;
-      size_t c = rule_count[e.rule];
-      if (best.empty() || c < best_n || (c == best_n && audit::rule_less(e.rule, best))) {
-        best = e.rule;
-        best_n = c;
-      }
+void StratifiedSampler::count(const ReviewRecord& r) {
+  for (const auto& e : r.edits)
+    if (!e.rule.empty()) ++rule_count_[e.rule];
+}
+
+std::string StratifiedSampler::stratum_of(const ReviewRecord& r) const {
+  const std::string* best = nullptr;
+  size_t best_n = 0;
+  for (const auto& e : r.edits) {
+    if (e.rule.empty()) continue;
+    auto it = rule_count_.find(e.rule);
+    size_t c = it == rule_count_.end() ? 0 : it->second;
+    if (!best || c < best_n || (c == best_n && audit::rule_less(e.rule, *best))) {
+      best = &e.rule;
+      best_n = c;
     }
-    if (!best.empty()) return best;
-    if (!r.guard.empty()) return "guard:" + r.guard;
-    if (!r.flags.empty()) return "flag:" + r.flags.front().code;
-    return std::string("other");
-  };
-  struct Strat {
-    std::string key;
-    std::vector<std::pair<uint64_t, size_t>> items;  // hash, index
-  };
-  std::map<std::string, size_t> pos;
-  std::vector<Strat> strata;
-  for (size_t i : candidates) {
-    std::string key = stratum(records[i]);
-    auto [it, fresh] = pos.emplace(key, strata.size());
-    if (fresh) strata.push_back({key, {}});
-    std::string id = records[i].input + ":" + std::to_string(records[i].line);
-    strata[it->second].items.emplace_back(stable_hash(seed, id), i);
   }
-  std::sort(strata.begin(), strata.end(),
-            [](const Strat& a, const Strat& b) { return audit::rule_less(a.key, b.key); });
-  for (auto& s : strata) std::sort(s.items.begin(), s.items.end());
-  std::vector<size_t> out;
-  for (size_t round = 0; out.size() < n; ++round) {
+  if (best) return *best;
+  if (!r.guard.empty()) return "guard:" + r.guard;
+  if (!r.flags.empty()) return "flag:" + r.flags.front().code;
+  return "other";
+}
+
+namespace {
+
+bool kept_less(uint64_t ha, uint64_t oa, uint64_t hb, uint64_t ob) {
+  return ha < hb || (ha == hb && oa < ob);
+}
+
+}  // namespace
+
+void StratifiedSampler::offer(ReviewRecord& r) {
+  uint64_t ordinal = offered_++;
+  if (n_ == 0) return;
+  std::string key = stratum_of(r);
+  auto [it, fresh] = pos_.emplace(key, strata_.size());
+  if (fresh) strata_.push_back({std::move(key), {}});
+  auto& best = strata_[it->second].best;
+  uint64_t hash = stable_hash(seed_, r.input + ":" + std::to_string(r.line));
+  auto less = [](const Kept& a, const Kept& b) {
+    return kept_less(a.hash, a.ordinal, b.hash, b.ordinal);
+  };
+  if (best.size() == n_) {
+    if (!kept_less(hash, ordinal, best.front().hash, best.front().ordinal)) return;
+    std::pop_heap(best.begin(), best.end(), less);
+    best.pop_back();
+  }
+  best.push_back({hash, ordinal, std::move(r)});
+  std::push_heap(best.begin(), best.end(), less);
+}
+
+std::vector<ReviewRecord> StratifiedSampler::take() {
+  // Strata sorted as they were first seen, then by rule_less: keys rule_less holds equal
+  // ("guard:A", "guard:B") keep the order std::sort gives that sequence.
+  std::sort(strata_.begin(), strata_.end(),
+            [](const Stratum& a, const Stratum& b) { return audit::rule_less(a.key, b.key); });
+  auto less = [](const Kept& a, const Kept& b) {
+    return kept_less(a.hash, a.ordinal, b.hash, b.ordinal);
+  };
+  for (auto& s : strata_) std::sort_heap(s.best.begin(), s.best.end(), less);
+  std::vector<Kept*> picked;
+  for (size_t round = 0; picked.size() < n_; ++round) {
     bool any = false;
-    for (auto& s : strata) {
-      if (round < s.items.size() && out.size() < n) {
-        out.push_back(s.items[round].second);
+    for (auto& s : strata_) {
+      if (round < s.best.size() && picked.size() < n_) {
+        picked.push_back(&s.best[round]);
         any = true;
       }
     }
     if (!any) break;
   }
-  std::sort(out.begin(), out.end());
+  std::sort(picked.begin(), picked.end(),
+            [](const Kept* a, const Kept* b) { return a->ordinal < b->ordinal; });
+  std::vector<ReviewRecord> out;
+  out.reserve(picked.size());
+  for (Kept* k : picked) out.push_back(std::move(k->record));
+  strata_.clear();
+  pos_.clear();
+  rule_count_.clear();
+  offered_ = 0;
   return out;
 }
 

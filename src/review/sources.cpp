@@ -74,80 +74,136 @@ Result<std::string> for_each_fields(
   });
 }
 
-Status attach_sources(std::vector<ReviewRecord*>& records, const CorpusLayout& layout) {
+namespace {
+
+// Fills `r` from its corpus record `raw` and checks every edit against it.
+Status fill_record(ReviewRecord& r, const corpus::RawRecord& raw, const std::string& path,
+                   const CorpusLayout& layout, simdjson::dom::parser& parser) {
+  auto fail = [&](const std::string& why) {
+    Error e = make_error(ErrorKind::input, path, why);
+    e.line = raw.line;
+    return e;
+  };
+  r.raw.assign(raw.bytes);
+  r.fields.clear();
+  std::vector<std::string> pointers;
+  for (const auto& e : r.edits)
+    if (std::find(pointers.begin(), pointers.end(), e.field) == pointers.end())
+      pointers.push_back(e.field);
+  for (const auto& p : pointers) {
+    FieldText ft{p, {}};
+    if (layout.format == CorpusFormat::text) {
+      ft.text = r.raw;
+    } else {
+      simdjson::dom::element doc;
+      std::string_view sv;
+      if (parser.parse(raw.bytes.data(), raw.bytes.size()).get(doc))
+        return fail("not a JSON record (is the corpus plain text?)");
+      if (doc.at_pointer(p).get_string().get(sv))
+        return fail("no string at " + p + " although the audit log edits it");
+      ft.text.assign(sv);
+    }
+    r.fields.push_back(std::move(ft));
+  }
+  for (const auto& e : r.edits) {
+    const std::string* text = nullptr;
+    for (const auto& f : r.fields)
+      if (f.pointer == e.field) text = &f.text;
+    if (!text || e.at + e.len > text->size() ||
+        std::string_view(*text).substr(e.at, e.len) != e.from) {
+      return fail("the audit log does not match this corpus: '" + e.from + "' is not at byte " +
+                  std::to_string(e.at) + " of " + (e.field.empty() ? "the line" : e.field));
+    }
+  }
+  return ok_status();
+}
+
+}  // namespace
+
+// An open input, read forward.
+struct SourceAttacher::Cursor {
+  std::unique_ptr<io::Source> src;
+  std::unique_ptr<corpus::RecordReader> reader;
+  corpus::RawRecord raw;  // the last record read, while `have`
+  bool have = false;
+  bool end = false;
+  uint64_t last = 0;  // line of the last record read
+};
+
+struct SourceAttacher::State {
+  simdjson::dom::parser parser;
+  std::map<std::string, Cursor> open;  // by input as logged
+};
+
+SourceAttacher::SourceAttacher(CorpusLayout layout)
+    : layout_(std::move(layout)), state_(std::make_unique<State>()) {}
+
+SourceAttacher::~SourceAttacher() = default;
+
+Status SourceAttacher::attach(std::vector<ReviewRecord*>& records) {
   // input -> line -> records wanting it
   std::map<std::string, std::multimap<uint64_t, ReviewRecord*>> wanted;
   for (ReviewRecord* r : records) wanted[r->input].emplace(r->line, r);
-  simdjson::dom::parser parser;
+  for (auto it = state_->open.begin(); it != state_->open.end();)
+    it = wanted.count(it->first) ? std::next(it) : state_->open.erase(it);
   for (auto& [input, by_line] : wanted) {
     if (input == "-")
       return make_error(
           ErrorKind::usage, input,
           "the run read standard input; the corpus cannot be read again to review it");
-    std::string path = resolve_input(input, layout);
-    Status failed = ok_status();
-    uint64_t last = by_line.rbegin()->first;
-    auto s = for_each_record(path, layout, [&](const corpus::RawRecord& raw) -> Result<bool> {
-      auto [lo, hi] = by_line.equal_range(raw.line);
-      for (auto it = lo; it != hi && failed.ok(); ++it) {
-        ReviewRecord& r = *it->second;
-        r.raw.assign(raw.bytes);
-        r.fields.clear();
-        auto fail = [&](const std::string& why) {
-          Error e = make_error(ErrorKind::input, path, why);
-          e.line = raw.line;
-          failed = e;
-        };
-        std::vector<std::string> pointers;
-        for (const auto& e : r.edits)
-          if (std::find(pointers.begin(), pointers.end(), e.field) == pointers.end())
-            pointers.push_back(e.field);
-        for (const auto& p : pointers) {
-          FieldText ft{p, {}};
-          if (layout.format == CorpusFormat::text) {
-            ft.text = r.raw;
-          } else {
-            simdjson::dom::element doc;
-            std::string_view sv;
-            if (parser.parse(raw.bytes.data(), raw.bytes.size()).get(doc)) {
-              fail("not a JSON record (is the corpus plain text?)");
-              break;
-            }
-            if (doc.at_pointer(p).get_string().get(sv)) {
-              fail("no string at " + p + " although the audit log edits it");
-              break;
-            }
-            ft.text.assign(sv);
-          }
-          r.fields.push_back(std::move(ft));
-        }
-        if (!failed.ok()) break;
-        for (const auto& e : r.edits) {
-          const std::string* text = nullptr;
-          for (const auto& f : r.fields)
-            if (f.pointer == e.field) text = &f.text;
-          if (!text || e.at + e.len > text->size() ||
-              std::string_view(*text).substr(e.at, e.len) != e.from) {
-            fail("the audit log does not match this corpus: '" + e.from + "' is not at byte " +
-                 std::to_string(e.at) + " of " + (e.field.empty() ? "the line" : e.field));
-            break;
-          }
-        }
+    std::string path = resolve_input(input, layout_);
+    Cursor& c = state_->open[input];
+    for (auto lo = by_line.begin(); lo != by_line.end();) {
+      uint64_t line = lo->first;
+      auto hi = by_line.upper_bound(line);
+      bool behind = c.have ? c.raw.line > line : c.end && c.last >= line;
+      if (!c.src || behind) {
+        c.reader.reset();  // before the source it reads from
+        c = Cursor{};
+        auto src = io::Source::open(path);
+        if (!src.ok()) return std::move(src).error();
+        c.src = std::move(*src);
+        c.reader = std::make_unique<corpus::RecordReader>(*c.src, layout_.framing,
+                                                          layout_.max_record_bytes);
       }
-      return failed.ok() && raw.line < last;
-    });
-    if (!s.ok()) return std::move(s).error();
-    if (!failed.ok()) return failed;
-    for (auto& [line, r] : by_line) {
-      if (r->raw.empty() && r->fields.empty()) {
+      while (!c.end && (!c.have || c.raw.line < line)) {
+        auto kind = c.reader->next(c.raw);
+        if (!kind.ok()) return std::move(kind).error();
+        if (*kind == corpus::RecordReader::Kind::end) {
+          c.end = true;
+          c.have = false;
+          break;
+        }
+        c.last = c.raw.line;
+        if (*kind == corpus::RecordReader::Kind::oversized) {
+          Error e =
+              make_error(ErrorKind::input, path,
+                         "record of " + std::to_string(c.raw.size) + " bytes is over the limit");
+          e.line = c.raw.line;
+          c.reader.reset();
+          c = Cursor{};
+          return e;
+        }
+        c.have = true;
+      }
+      if (!c.have || c.raw.line != line) {
         Error e = make_error(ErrorKind::input, path,
                              "no record at this line although the audit log names it");
         e.line = line;
         return e;
       }
+      for (auto i = lo; i != hi; ++i) {
+        Status s = fill_record(*i->second, c.raw, path, layout_, state_->parser);
+        if (!s.ok()) return s;
+      }
+      lo = hi;
     }
   }
   return ok_status();
+}
+
+Status attach_sources(std::vector<ReviewRecord*>& records, const CorpusLayout& layout) {
+  return SourceAttacher(layout).attach(records);
 }
 
 }  // namespace evenhand::review

@@ -5,6 +5,7 @@
 
 #include <cstdint>
 #include <functional>
+#include <memory>
 #include <span>
 #include <string>
 #include <string_view>
@@ -41,9 +42,29 @@ Result<std::string> for_each_fields(
     const std::string& path, const CorpusLayout& layout, const std::vector<std::string>& patterns,
     const std::function<void(std::span<const std::string_view>)>& fn);
 
-// Fills `fields` (the decoded text of every field the edits name) and `raw` of each record,
-// reading each input once. Errors when an input cannot be read again (standard input), a
-// record or field is not there, or an edit's `from` differs from the corpus bytes.
+// Fills `fields` (the decoded text of every field the edits name) and `raw` of records,
+// handed over a batch at a time. Each input stays open between batches and is read forward,
+// so batches in log order read each input once in all (a record before the read position
+// reopens its input); inputs a batch does not name are closed. Errors when an input cannot
+// be read again (standard input), a record or field is not there, or an edit's `from`
+// differs from the corpus bytes.
+class SourceAttacher {
+ public:
+  explicit SourceAttacher(CorpusLayout layout);
+  ~SourceAttacher();
+  SourceAttacher(const SourceAttacher&) = delete;
+  SourceAttacher& operator=(const SourceAttacher&) = delete;
+
+  Status attach(std::vector<ReviewRecord*>& records);
+
+ private:
+  struct Cursor;
+  struct State;
+  CorpusLayout layout_;
+  std::unique_ptr<State> state_;
+};
+
+// One batch: SourceAttacher(layout).attach(records).
 Status attach_sources(std::vector<ReviewRecord*>& records, const CorpusLayout& layout);
 
 // The path a logged input is read from under `layout.root`.

@@ -113,6 +113,78 @@ TEST_CASE("edits are checked against the corpus they name") {
         d.file("c.jsonl") + ":3: no record at this line although the audit log names it");
 }
 
+TEST_CASE("the streaming reader hands over one joined record at a time and stops on an error") {
+  TempDir d;
+  write_file(d.file("log.jsonl"), log_for("c.jsonl"));
+  std::vector<std::pair<uint64_t, size_t>> seen;  // line, edits
+  auto s = review::for_each_review_record(d.file("log.jsonl"), [&](review::ReviewRecord& r) {
+    seen.emplace_back(r.line, r.edits.size());
+    return ok_status();
+  });
+  REQUIRE(s.ok());
+  CHECK(seen == std::vector<std::pair<uint64_t, size_t>>{{1, 2}, {2, 0}, {3, 1}});
+  // An error of the callback comes back as it is, and nothing more is read.
+  size_t calls = 0;
+  auto stop = review::for_each_review_record(d.file("log.jsonl"), [&](review::ReviewRecord&) {
+    ++calls;
+    return Status(make_error(ErrorKind::output, "elsewhere", "cannot write"));
+  });
+  REQUIRE_FALSE(stop.ok());
+  CHECK(stop.error().message() == "elsewhere: cannot write");
+  CHECK(calls == 1);
+  // A bad line: the records before it were handed over, the one it belongs to was not.
+  write_file(d.file("bad.jsonl"), log_for("c.jsonl") + "{\"input\":\"c.jsonl\",\"line\":3}\n");
+  seen.clear();
+  auto bad = review::for_each_review_record(d.file("bad.jsonl"), [&](review::ReviewRecord& r) {
+    seen.emplace_back(r.line, r.edits.size());
+    return ok_status();
+  });
+  REQUIRE_FALSE(bad.ok());
+  CHECK(bad.error().message() ==
+        d.file("bad.jsonl") + ":5: audit line lacks 'input', 'line' or 'action'");
+  CHECK(seen.size() == 2);
+}
+
+TEST_CASE("sources attached in batches: forward reading, going back, closing, errors") {
+  TempDir d;
+  write_file(d.file("c.jsonl"), kCorpus);
+  write_file(d.file("log.jsonl"), log_for("c.jsonl"));
+  auto log = review::read_audit_log(d.file("log.jsonl"));
+  REQUIRE(log.ok());
+  auto& rs = *log;
+  review::CorpusLayout layout;
+  layout.root = d.path().string();
+  review::SourceAttacher attacher(layout);
+  std::vector<review::ReviewRecord*> b1{&rs[0]}, b2{&rs[2]}, b3{&rs[1]}, b4{&rs[2], &rs[0]};
+  REQUIRE(attacher.attach(b1).ok());
+  CHECK(rs[0].fields.at(0).text == "She fixed her bike.");
+  REQUIRE(attacher.attach(b2).ok());  // forward
+  CHECK(rs[2].fields.at(0).text == "she lead the ride");
+  REQUIRE(attacher.attach(b3).ok());  // behind the read position: the input is read again
+  CHECK(rs[1].raw == "{\"text\": \"She is pregnant.\"}");
+  rs[0].fields.clear();
+  REQUIRE(attacher.attach(b4).ok());  // out of order within a batch
+  CHECK(rs[0].fields.at(0).text == "She fixed her bike.");
+  // The corpus changes under the same name; the open input was closed by a batch that did not
+  // name it, so the new bytes are read.
+  std::vector<review::ReviewRecord> other(1);
+  other[0].input = "o.jsonl";
+  other[0].line = 1;
+  write_file(d.file("o.jsonl"), "{}\n");
+  std::vector<review::ReviewRecord*> b5{&other[0]};
+  REQUIRE(attacher.attach(b5).ok());
+  write_file(d.file("c.jsonl"), "{\"text\": \"He fixed his bike.\"}\n");
+  auto s = attacher.attach(b1);
+  REQUIRE_FALSE(s.ok());
+  CHECK(s.error().message() == d.file("c.jsonl") +
+                                   ":1: the audit log does not match this corpus: 'She' is not "
+                                   "at byte 0 of /text");
+  auto t = attacher.attach(b2);
+  REQUIRE_FALSE(t.ok());
+  CHECK(t.error().message() ==
+        d.file("c.jsonl") + ":3: no record at this line although the audit log names it");
+}
+
 TEST_CASE("terminal drawing: brackets without colour, ANSI with it, two columns") {
   review::ReviewRecord r;
   r.input = "c.jsonl";

@@ -119,6 +119,55 @@ TEST_CASE("review: bad options and logs that do not fit are one clear line") {
                             "of /text\n");
 }
 
+TEST_CASE("review and report on a log longer than a batch and than the page's lists") {
+  // Invented corpus: 700 records, every fifth one guarded (a pregnancy, a medical guard of
+  // en-gender), the others rewritten.
+  TempDir d;
+  std::string corpus;
+  for (int i = 0; i < 700; ++i)
+    corpus += i % 5 == 0
+                  ? "{\"text\": \"She is pregnant with twins, week " + std::to_string(i) + ".\"}\n"
+                  : "{\"text\": \"She fixed her bike on day " + std::to_string(i) + ".\"}\n";
+  write_file(d.file("big.jsonl"), corpus);
+  REQUIRE(run(d, "run --pack en-gender --in " + d.file("big.jsonl") + " --field /text --out " +
+                     d.file("out.jsonl") + " --manifest " + d.file("m.json") + " --edits " +
+                     d.file("edits.jsonl") + " --quiet")
+              .code == 0);
+  auto all = run(d, "review " + d.file("edits.jsonl"));
+  REQUIRE(all.code == 0);
+  CHECK(all.out.find("shown 700 of 700 matching records (700 in the log)") != std::string::npos);
+  // Every record once, in log order, across the batches.
+  std::regex head("big\\.jsonl:([0-9]+)  (added|guarded)");
+  std::vector<int> lines;
+  for (auto it = std::sregex_iterator(all.out.begin(), all.out.end(), head);
+       it != std::sregex_iterator(); ++it)
+    lines.push_back(std::stoi((*it)[1].str()));
+  REQUIRE(lines.size() == 700);
+  for (size_t i = 0; i < lines.size(); ++i) CHECK(lines[i] == int(i) + 1);
+  auto sample = run(d, "review " + d.file("edits.jsonl") + " --sample 9 --seed 4");
+  CHECK(sample.out.find("shown 9 of 700 matching records (700 in the log)") != std::string::npos);
+
+  auto page = run(d, "report --manifest " + d.file("m.json") + " --edits " + d.file("edits.jsonl") +
+                         " --out " + d.file("r.html"));
+  REQUIRE(page.code == 0);
+  std::string html = read_file(d.file("r.html"));
+  size_t guards = html.find("id=\"guards\"");
+  REQUIRE(guards != std::string::npos);
+  std::string section = html.substr(guards, html.find("</section>", guards) - guards);
+  std::regex row("<tr><td class=\"ptr\">");
+  CHECK(std::distance(std::sregex_iterator(section.begin(), section.end(), row),
+                      std::sregex_iterator()) == long(evenhand::review::kReportListed));
+  CHECK(section.find("The first 50 of 140.") != std::string::npos);
+
+  // A corpus record that no longer fits, past the first batch: an error naming it.
+  corpus.replace(corpus.find("She fixed her bike on day 601."), 3, "Tom");
+  write_file(d.file("big.jsonl"), corpus);
+  auto late = run(d, "review " + d.file("edits.jsonl"));
+  CHECK(late.code == kInput);
+  CHECK(late.err.find(d.file("big.jsonl") + ":602: the audit log does not match this corpus") !=
+        std::string::npos);
+}
+
 TEST_CASE("report: a self-contained page, written all or nothing") {
   TempDir d;
   demo(d);
