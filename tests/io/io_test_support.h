@@ -1,8 +1,10 @@
 // Helpers shared by the io tests: a scratch directory removed on exit, whole-file read and
-// write, running the reference zstd/gzip commands, and draining a Source.
+// write, running the reference zstd/gzip commands, draining a Source, and running a check
+// without root's privileges.
 // They exist only for tests and may abort the test (REQUIRE) on setup failures.
 #pragma once
 
+#include <grp.h>
 #include <sys/stat.h>
 #include <sys/wait.h>
 #include <unistd.h>
@@ -12,6 +14,7 @@
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
+#include <functional>
 #include <random>
 #include <sstream>
 #include <string>
@@ -54,6 +57,25 @@ class TempDir {
  private:
   std::filesystem::path path_;
 };
+
+// Runs `check` in a child process that has dropped to the unprivileged user "nobody" (uid
+// and gid 65534, the Debian convention), for permission cases that root cannot see: root
+// bypasses file permissions (CAP_DAC_OVERRIDE). `check` returns 0 when all is as expected.
+// Returns the child's exit status: 100 when it could not drop its privileges, -1 when it
+// could not be started or did not exit normally.
+inline int as_nobody(const std::function<int()>& check) {
+  pid_t pid = ::fork();
+  if (pid < 0) return -1;
+  if (pid == 0) {
+    if (::setgroups(0, nullptr) != 0 || ::setgid(65534) != 0 || ::setuid(65534) != 0) {
+      ::_exit(100);
+    }
+    ::_exit(check());
+  }
+  int status = 0;
+  if (::waitpid(pid, &status, 0) != pid) return -1;
+  return WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+}
 
 inline void write_file(const std::string& path, const std::string& data) {
   std::ofstream out(path, std::ios::binary | std::ios::trunc);
