@@ -14,12 +14,7 @@ PACK="${BENCH_PACK:-en-gender}"
 NAIVE_RUNS="${BENCH_NAIVE_RUNS:-$RUNS}"
 FIELDS=(--field /text --field '/messages/*/content')
 
-check_tools
-if [[ -n "${BENCH_QUIET_LOAD:-}" ]]; then  # e.g. 0.5: wait up to BENCH_WAIT s for a quiet machine
-  echo "waiting for the 1-minute load to fall below $BENCH_QUIET_LOAD (now $(load1))" >&2
-  wait_for_low_load "$BENCH_QUIET_LOAD" > /dev/null
-fi
-need_input corpus-1x.jsonl.zst
+start_bench corpus-1x.jsonl.zst
 X="$DATA/corpus-1x.jsonl.zst"
 if ! "$EVENHAND" check --pack "$PACK" > "$WORK/check.out" 2>&1 &&
   ! "$EVENHAND" check "$PACK" > "$WORK/check.out" 2>&1; then

@@ -64,6 +64,19 @@ wait_for_low_load() {
   load1
 }
 
+# start_bench INPUT...: what every driver does first: checks the tools, waits for a quiet
+# machine when BENCH_QUIET_LOAD is set (e.g. 0.5; up to BENCH_WAIT s), and makes sure each
+# named corpus of bench/data exists.
+start_bench() {
+  check_tools
+  if [[ -n "${BENCH_QUIET_LOAD:-}" ]]; then
+    echo "waiting for the 1-minute load to fall below $BENCH_QUIET_LOAD (now $(load1))" >&2
+    wait_for_low_load "$BENCH_QUIET_LOAD" > /dev/null
+  fi
+  local input
+  for input in "$@"; do need_input "$input"; done
+}
+
 # timed LABEL CMD...: runs CMD under /usr/bin/time -v; sets T_WALL (seconds), T_CPU (user +
 # system seconds, children included) and T_RSS_MB (peak resident set of the largest process,
 # MB = 2^20 bytes); CMD's stderr is left in $WORK/last.stderr and appended to $WORK/stderr.log. Dies when CMD fails.

@@ -13,12 +13,7 @@ THREADS="${BENCH_THREADS:-1 2}"
 INPUT="${BENCH_INPUT:-corpus-1x.jsonl.zst}"
 FIELDS=(--field /text --field '/messages/*/content')
 
-check_tools
-if [[ -n "${BENCH_QUIET_LOAD:-}" ]]; then
-  echo "waiting for the 1-minute load to fall below $BENCH_QUIET_LOAD (now $(load1))" >&2
-  wait_for_low_load "$BENCH_QUIET_LOAD" > /dev/null
-fi
-need_input "$INPUT"
+start_bench "$INPUT"
 X="$DATA/$INPUT"
 bytes=$(raw_bytes "$X")
 warm "$X"

@@ -13,12 +13,9 @@ THREADS="${BENCH_THREADS:-1 2}"
 INPUTS="${BENCH_INPUTS:-1x 4x}"
 VERIFY="${BENCH_VERIFY:-1}"
 
-check_tools
-if [[ -n "${BENCH_QUIET_LOAD:-}" ]]; then  # e.g. 0.5: wait up to BENCH_WAIT s for a quiet machine
-  echo "waiting for the 1-minute load to fall below $BENCH_QUIET_LOAD (now $(load1))" >&2
-  wait_for_low_load "$BENCH_QUIET_LOAD" > /dev/null
-fi
-for in in $INPUTS; do need_input "corpus-$in.jsonl.zst"; done
+inputs=()
+for in in $INPUTS; do inputs+=("corpus-$in.jsonl.zst"); done
+start_bench "${inputs[@]}"
 
 load_start=$(load1)
 echo "# passthrough $(date -u +%FT%TZ) load=$load_start" >> "$BENCH_LOG"

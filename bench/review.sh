@@ -12,12 +12,7 @@ BENCH_LOG="$WORK/review.log"
 PACK="${BENCH_PACK:-en-gender}"
 FIELDS=(--field /text --field '/messages/*/content')
 
-check_tools
-if [[ -n "${BENCH_QUIET_LOAD:-}" ]]; then
-  echo "waiting for the 1-minute load to fall below $BENCH_QUIET_LOAD (now $(load1))" >&2
-  wait_for_low_load "$BENCH_QUIET_LOAD" > /dev/null
-fi
-need_input corpus-1x.jsonl.zst
+start_bench corpus-1x.jsonl.zst
 X="$DATA/corpus-1x.jsonl.zst"
 
 # The corpora (the quarter: the 1x corpus's first quarter of lines) and their runs, made once.
