@@ -40,6 +40,15 @@ std::string log_for(const std::string& input) {
   return s;
 }
 
+// Writes the corpus and its log into `d` and reads the log back.
+std::vector<review::ReviewRecord> corpus_and_log(const TempDir& d) {
+  write_file(d.file("c.jsonl"), kCorpus);
+  write_file(d.file("log.jsonl"), log_for("c.jsonl"));
+  auto log = review::read_audit_log(d.file("log.jsonl"));
+  REQUIRE(log.ok());
+  return std::move(*log);
+}
+
 }  // namespace
 
 TEST_CASE("audit log lines are joined per record") {
@@ -82,20 +91,17 @@ TEST_CASE("a bad audit line is an error naming file and line") {
 
 TEST_CASE("edits are checked against the corpus they name") {
   TempDir d;
-  write_file(d.file("c.jsonl"), kCorpus);
-  write_file(d.file("log.jsonl"), log_for("c.jsonl"));
-  auto log = review::read_audit_log(d.file("log.jsonl"));
-  REQUIRE(log.ok());
+  auto records = corpus_and_log(d);
   std::vector<review::ReviewRecord*> all;
-  for (auto& r : *log) all.push_back(&r);
+  for (auto& r : records) all.push_back(&r);
   review::CorpusLayout layout;
   layout.root = d.path().string();
   REQUIRE(review::attach_sources(all, layout).ok());
-  REQUIRE((*log)[0].fields.size() == 1);
-  CHECK((*log)[0].fields[0].text == "She fixed her bike.");
-  CHECK(review::apply_edits((*log)[0].fields[0].text, (*log)[0].edits, "/text") ==
+  REQUIRE(records[0].fields.size() == 1);
+  CHECK(records[0].fields[0].text == "She fixed her bike.");
+  CHECK(review::apply_edits(records[0].fields[0].text, records[0].edits, "/text") ==
         "He fixed his bike.");
-  CHECK((*log)[1].raw == "{\"text\": \"She is pregnant.\"}");
+  CHECK(records[1].raw == "{\"text\": \"She is pregnant.\"}");
 
   // Another corpus under the same name: the first edit's 'from' is not there.
   write_file(d.file("c.jsonl"), "{\"text\": \"He fixed his bike.\"}\n");
@@ -147,11 +153,7 @@ TEST_CASE("the streaming reader hands over one joined record at a time and stops
 
 TEST_CASE("sources attached in batches: forward reading, going back, closing, errors") {
   TempDir d;
-  write_file(d.file("c.jsonl"), kCorpus);
-  write_file(d.file("log.jsonl"), log_for("c.jsonl"));
-  auto log = review::read_audit_log(d.file("log.jsonl"));
-  REQUIRE(log.ok());
-  auto& rs = *log;
+  auto rs = corpus_and_log(d);
   review::CorpusLayout layout;
   layout.root = d.path().string();
   review::SourceAttacher attacher(layout);
