@@ -35,6 +35,10 @@ struct Edit {
   const pack::SourceRef* rule = nullptr;  // the pack line that fired (owned by the pack)
   float score = 0;                        // decision margin for context edits
   std::string note;                       // agreement edits: what was agreed and why
+  // For the edit of a mention (not agreement): the group it was counted in before and after
+  // (RecordResult::before/after) and its RecordResult::entry_hits value; kNone otherwise.
+  static constexpr uint32_t kNone = UINT32_MAX;
+  uint32_t from_group = kNone, to_group = kNone, hit = kNone;
 };
 
 // Counts per group, indexed like CompiledPack::groups().
@@ -60,6 +64,12 @@ struct RecordResult {
   bool has_mentions() const;
   void clear();
 };
+
+// Keeps the promise of RecordResult::edits: sorts the edits by (field, begin) and, should two
+// of them ever claim the same bytes, leaves out the later one and flags the record
+// ("overlapping_edits"); a mention's edit left out is counted back in its own group (after),
+// and its entry hit removed, so counts, output and audit log still agree.
+void keep_edits_apart(RecordResult& out);
 
 struct EngineOptions {
   // Protected-span user patterns (ICU regular expressions).

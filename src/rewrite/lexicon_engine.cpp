@@ -123,8 +123,6 @@ class LexiconWorker final : public Worker {
   // True when the name at item k follows a title or another first name (so is a surname).
   bool surname_position(size_t k) const;
   bool is_protected(uint32_t begin, uint32_t end) const;
-  // Sorts the edits and drops (and flags) any that overlap an earlier one.
-  void keep_edits_apart(RecordResult& out) const;
   void field_matches(uint32_t field, std::string_view text, RecordResult& out, bool guarded);
 
   const LexiconEngine& e_;
@@ -506,9 +504,12 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
     ed.replacement = recase(original, replacement);
     ed.reason = reason;
     ed.score = score;
+    ed.from_group = g;
+    ed.to_group = t;
     uint32_t hit =
         chosen->is_name ? static_cast<uint32_t>(pk.sets().size() + chosen->set) : chosen->set;
     ed.rule = chosen->is_name ? &pk.names()[chosen->set].where : &pk.sets()[chosen->set].where;
+    ed.hit = hit;
     if (ed.replacement != original) {
       article_agreement(field, text, k, ed.replacement, out);
       bool plural_subject = e_.verbs_ && chosen->tag == pack::Tag::subj && replacement == "they" &&
@@ -666,30 +667,6 @@ void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResu
     field_matches(f, fields[f], out, guard != nullptr);
   }
   keep_edits_apart(out);
-}
-
-void LexiconWorker::keep_edits_apart(RecordResult& out) const {
-  // The promise of RecordResult: edits sorted by (field, begin) and not overlapping. The
-  // rules above are written to keep it; should two of them ever claim the same bytes, the
-  // later edit is dropped and the record flagged, so the output and the audit log still agree.
-  auto before = [](const Edit& a, const Edit& b) {
-    return a.field != b.field ? a.field < b.field : a.begin < b.begin;
-  };
-  if (!std::is_sorted(out.edits.begin(), out.edits.end(), before))
-    std::stable_sort(out.edits.begin(), out.edits.end(), before);
-  size_t w = 0;
-  for (size_t r = 0; r < out.edits.size(); ++r) {
-    if (w > 0 && out.edits[w - 1].field == out.edits[r].field &&
-        out.edits[r].begin < out.edits[w - 1].end) {
-      out.flags.push_back({"overlapping_edits", "'" + out.edits[r].replacement + "' at byte " +
-                                                    std::to_string(out.edits[r].begin) +
-                                                    " overlaps an earlier edit; left out"});
-      continue;
-    }
-    if (w != r) out.edits[w] = std::move(out.edits[r]);
-    ++w;
-  }
-  out.edits.resize(w);
 }
 
 }  // namespace

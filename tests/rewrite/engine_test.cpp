@@ -195,3 +195,48 @@ TEST_CASE("themselves instead of themself on request, and toward one binary grou
   Rewriter to_male(neutral_pack(), m);
   REQUIRE(to_male("She told her mother; they agreed.") == "He told his father; they agreed.");
 }
+
+TEST_CASE("keep_edits_apart sorts, drops a clashing edit and counts its mention back") {
+  // Invented record: two groups; the engine's rules never produce a clash, so it is built
+  // by hand. Edits out of order; the third overlaps the first.
+  rewrite::RecordResult r;
+  r.before = {2, 0};
+  r.after = {0, 2};  // both mentions of group 0 were counted as rewritten to group 1
+  auto mention = [](uint32_t field, uint32_t begin, uint32_t end, uint32_t hit) {
+    rewrite::Edit e;
+    e.field = field;
+    e.begin = begin;
+    e.end = end;
+    e.replacement = "x";
+    e.from_group = 0;
+    e.to_group = 1;
+    e.hit = hit;
+    return e;
+  };
+  rewrite::Edit agree;  // an agreement edit in another field: no groups, no hit
+  agree.field = 1;
+  agree.begin = 0;
+  agree.end = 2;
+  agree.reason = rewrite::EditReason::agreement;
+  r.edits = {agree, mention(0, 4, 7, 11), mention(0, 5, 9, 12)};
+  r.entry_hits = {11, 12};
+  rewrite::keep_edits_apart(r);
+  REQUIRE(r.edits.size() == 2);
+  CHECK(r.edits[0].field == 0);
+  CHECK(r.edits[0].begin == 4);
+  CHECK(r.edits[1].field == 1);
+  CHECK(r.after == rewrite::GroupCounts{1, 1});  // the left-out mention stays in group 0
+  CHECK(r.before == rewrite::GroupCounts{2, 0});
+  CHECK(r.entry_hits == std::vector<uint32_t>{11});
+  REQUIRE(r.flags.size() == 1);
+  CHECK(r.flags[0].code == "overlapping_edits");
+  // Apart already: nothing changes.
+  rewrite::RecordResult s;
+  s.after = {0, 1};
+  s.edits = {mention(0, 0, 3, 4), mention(0, 3, 5, 5)};
+  s.entry_hits = {4, 5};
+  rewrite::keep_edits_apart(s);
+  CHECK(s.edits.size() == 2);
+  CHECK(s.flags.empty());
+  CHECK(s.entry_hits == std::vector<uint32_t>{4, 5});
+}
