@@ -528,29 +528,6 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
   }
 }
 
-// Third-person singular auxiliaries that stand before their subject in questions and tags
-// (folded; the typographic apostrophe folds to '), common practice of English grammar.
-bool is_inverting_auxiliary(std::string_view w) {
-  static constexpr std::string_view kAux[] = {"is",    "was",    "has",    "does",
-                                              "isn't", "wasn't", "hasn't", "doesn't"};
-  for (std::string_view a : kAux)
-    if (w == a) return true;
-  return false;
-}
-
-// Auxiliaries without number that stand before their subject ("Can she ride?", "Did he
-// call?"): the verb after the subject is then a base form and needs nothing (common practice
-// of English grammar).
-bool is_numberless_auxiliary(std::string_view w) {
-  static constexpr std::string_view kAux[] = {
-      "can",    "could",     "will",     "would",   "shall",    "should", "may",
-      "might",  "must",      "did",      "can't",   "couldn't", "won't",  "wouldn't",
-      "shan't", "shouldn't", "mightn't", "mustn't", "didn't",   "cannot"};
-  for (std::string_view a : kAux)
-    if (w == a) return true;
-  return false;
-}
-
 size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size_t k, size_t len,
                                      uint32_t clitic, Edit& pronoun, RecordResult& out) {
   const VerbTable& verbs = *e_.verbs_;
@@ -606,7 +583,7 @@ size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size
   // ("she says he knows"). An earlier edit may already have taken that verb.
   bool verb_free = out.edits.empty() || out.edits.back().field != field ||
                    out.edits.back().end <= cur_->items[k - (k > 0 ? 1 : 0)].begin;
-  if (k > 0 && word_at(k - 1) && verb_free && is_inverting_auxiliary(folded(k - 1))) {
+  if (k > 0 && word_at(k - 1) && verb_free && VerbTable::is_inverting_auxiliary(folded(k - 1))) {
     auto a = verbs.pluralize(folded(k - 1));
     if (a.kind == VerbTable::Answer::plural) {
       out.edits.push_back(agree(k - 1, a.form, "verb before its subject"));
@@ -614,7 +591,7 @@ size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size
       return last;
     }
   }
-  if (k > 0 && word_at(k - 1) && is_numberless_auxiliary(folded(k - 1))) {
+  if (k > 0 && word_at(k - 1) && VerbTable::is_numberless_auxiliary(folded(k - 1))) {
     out.edits.push_back(std::move(pronoun));  // "Can she ride?": nothing to agree
     return last;
   }

@@ -22,14 +22,20 @@ constexpr std::array<std::pair<std::string_view, std::string_view>, 6> kPluralOf
     {"hasn't", "haven't"},
 }};
 
-// Tokens that keep their form after a plural subject (from memory): the modals, "need" and
-// "dare" used as modals ("she need not"), their negatives, the past negatives, the
-// subjunctive "were" ("if she were"), the participles of "be", and "ain't".
-constexpr std::array<std::string_view, 31> kUnchanged = {
-    "can",      "could",  "will",      "would",    "shall",   "should",   "may",      "might",
-    "must",     "ought",  "need",      "dare",     "cannot",  "can't",    "couldn't", "won't",
-    "wouldn't", "shan't", "shouldn't", "mightn't", "mustn't", "oughtn't", "needn't",  "daren't",
-    "didn't",   "hadn't", "weren't",   "were",     "been",    "being",    "ain't",
+// The modals and their negatives (from memory, general knowledge of English): no number,
+// and before a subject ("Can she ride?") they leave the verb after it in its base form.
+constexpr std::array<std::string_view, 20> kModals = {
+    "can",    "could",     "will",     "would",   "shall",    "should",   "may",
+    "might",  "must",      "cannot",   "can't",   "couldn't", "won't",    "wouldn't",
+    "shan't", "shouldn't", "mightn't", "mustn't", "ought",    "oughtn't",
+};
+
+// Other tokens that keep their form after a plural subject (from memory): "need" and "dare"
+// used as modals ("she need not"), their negatives, the past negatives, the subjunctive
+// "were" ("if she were"), the participles of "be", and "ain't".
+constexpr std::array<std::string_view, 11> kUnchanged = {
+    "need",    "dare", "needn't", "daren't", "didn't", "hadn't",
+    "weren't", "were", "been",    "being",   "ain't",
 };
 
 // Forms of "be" that are not third-person singular present: after "she" they are an error or
@@ -242,7 +248,7 @@ VerbTable::Answer VerbTable::pluralize(std::string_view token) const {
   for (const auto& [singular, plural] : kPluralOf) {
     if (w == singular) return result(Answer::plural, plural, "");
   }
-  if (in(kUnchanged, w)) {
+  if (in(kModals, w) || in(kUnchanged, w)) {
     return result(Answer::unchanged, token, "modal, past or participle with no number");
   }
   if (in(kNotThird, w)) {
@@ -341,6 +347,16 @@ bool VerbTable::is_third_singular(std::string_view folded) const {
   if (folded == "is") return true;
   const Entry* e = find(folded);
   return e != nullptr && (e->flags & kThird);
+}
+
+bool VerbTable::is_inverting_auxiliary(std::string_view folded) {
+  for (const auto& [singular, plural] : kPluralOf)
+    if (folded == singular) return true;
+  return folded == "has" || folded == "does";
+}
+
+bool VerbTable::is_numberless_auxiliary(std::string_view folded) {
+  return in(kModals, folded) || folded == "did" || folded == "didn't";
 }
 
 bool VerbTable::is_preverbal_adverb(std::string_view folded) const {

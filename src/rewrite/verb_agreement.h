@@ -96,6 +96,15 @@ class VerbTable {
   // (common practice).
   bool is_preverbal_adverb(std::string_view folded) const;
 
+  // True when `folded` is an auxiliary that shows number and stands before its subject in
+  // questions and tags ("Is she", "..., doesn't he?"): is, was, has, does and their negative
+  // contractions. Only auxiliaries invert in English; a lexical verb before a subject
+  // belongs to another clause ("she says he knows").
+  static bool is_inverting_auxiliary(std::string_view folded);
+  // True when `folded` is a modal or "did" (or a negative of them): before its subject ("Can
+  // she ride?", "Did he call?") it leaves the verb after the subject in its base form.
+  static bool is_numberless_auxiliary(std::string_view folded);
+
   // Number of lemmas (verbs) in the table.
   size_t lemma_count() const { return lemmas_.size(); }
 

@@ -408,3 +408,27 @@ TEST_CASE("VerbTable::parse reads the format and rejects malformed records", "[v
     CHECK(r.error().reason.find(b.says) != std::string::npos);
   }
 }
+
+TEST_CASE("auxiliaries before a subject: which invert with number, which have none") {
+  // Common practice of English grammar (no outside list): in questions and tags only
+  // auxiliaries stand before the subject; be/have/do show number there, modals and "did" do
+  // not.
+  using rewrite::VerbTable;
+  for (const char* w : {"is", "was", "has", "does", "isn't", "wasn't", "hasn't", "doesn't"}) {
+    INFO(w);
+    CHECK(VerbTable::is_inverting_auxiliary(w));
+    CHECK_FALSE(VerbTable::is_numberless_auxiliary(w));
+  }
+  for (const char* w : {"can", "could", "will", "would", "shall", "should", "may", "might", "must",
+                        "did", "cannot", "can't", "won't", "didn't", "mustn't"}) {
+    INFO(w);
+    CHECK(VerbTable::is_numberless_auxiliary(w));
+    CHECK_FALSE(VerbTable::is_inverting_auxiliary(w));
+  }
+  // Lexical verbs and other words are neither ("she says he knows").
+  for (const char* w : {"says", "knows", "goes", "are", "were", "the", "she"}) {
+    INFO(w);
+    CHECK_FALSE(VerbTable::is_inverting_auxiliary(w));
+    CHECK_FALSE(VerbTable::is_numberless_auxiliary(w));
+  }
+}
