@@ -741,37 +741,34 @@ Decision PossessiveModel::decide(std::span<const std::string_view> words, size_t
     if (clause_ends) {
       return Decision{target == Target::her ? Decision::object : Decision::standalone, kRuleScore};
     }
-    if (target == Target::her && next.is_word) {
-      Tok after;
+    if (next.is_word) {
+      // The rules below look at the next word's class and at the class of the one after it
+      // (a punctuation kind, or "</s>" at the end).
+      std::string_view next_class = word_class_of(next.text());
       std::string_view after_class = "</s>";
       if (i + 2 < words.size()) {
+        Tok after;
         normalise(words[i + 2], after);
         after_class = after.is_word ? word_class_of(after.text()) : after.symbol;
       }
-      Tok prev;  // "" at the start of the input
-      if (i > 0) normalise(words[i - 1], prev);
-      if (object_rule(prev.text(), next.text(), word_class_of(next.text()), after_class)) {
-        return Decision{Decision::object, kRuleScore};
-      }
-    }
-    // "his" right before a preposition is standalone: "a friend of his in town", "brought his
-    // along". Odd Brown files, all possessives before a word whose class is "in" (excluding
-    // "her"): 6 PP$$ / 1 PP$, a tag error ("her mouth on his/PP$ in the green"). No change in
-    // the cross-validation; "her" there (PPO 90 / PP$ 1 in the odd files) is left to the weights.
-    // Left out: "inside", "outside" and "near" before a nominal, which are adjectives there
-    // ("his inside pocket", "his near neighbour"); common practice of English grammar.
-    if (target == Target::his && next.is_word && word_class_of(next.text()) == "in") {
-      bool adjective = false;
-      if (in_list(next.text(), {"inside", "outside", "near"})) {
-        std::string_view after_class = "</s>";
-        if (i + 2 < words.size()) {
-          Tok after;
-          normalise(words[i + 2], after);
-          after_class = after.is_word ? word_class_of(after.text()) : after.symbol;
+      if (target == Target::her) {
+        Tok prev;  // "" at the start of the input
+        if (i > 0) normalise(words[i - 1], prev);
+        if (object_rule(prev.text(), next.text(), next_class, after_class)) {
+          return Decision{Decision::object, kRuleScore};
         }
-        adjective = nominal_class(after_class);
       }
-      if (!adjective) return Decision{Decision::standalone, kRuleScore};
+      // "his" right before a preposition is standalone: "a friend of his in town", "brought
+      // his along". Odd Brown files, all possessives before a word whose class is "in"
+      // (excluding "her"): 6 PP$$ / 1 PP$, a tag error ("her mouth on his/PP$ in the green").
+      // No change in the cross-validation; "her" there (PPO 90 / PP$ 1 in the odd files) is
+      // left to the weights. Left out: "inside", "outside" and "near" before a nominal, which
+      // are adjectives there ("his inside pocket", "his near neighbour"); common practice of
+      // English grammar.
+      if (target == Target::his && next_class == "in" &&
+          !(in_list(next.text(), {"inside", "outside", "near"}) && nominal_class(after_class))) {
+        return Decision{Decision::standalone, kRuleScore};
+      }
     }
   }
   std::array<int64_t, 3> scores{};
