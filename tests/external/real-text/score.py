@@ -102,7 +102,7 @@ def score_half(half, records, outputs, edits, names, expected):
         orig = records[rid]["text"]
         want = orig if "flag" in exp else exp["expected"]
         total += 1
-        right += outputs[rid] == want
+        right += outputs[rid] in [want] + exp.get("alternatives", [])
         changes = expected_changes(orig, want)
         for at, length, to in edits.get(rid, []):
             all_edits += 1
@@ -134,6 +134,11 @@ def main():
             unsure += 1
         else:
             names.append((rid, int(off), label))
+    found = [tuple(l.split("\t")[:2]) for l in (HERE / "names-found.tsv").read_text().splitlines()]
+    labelled = [tuple(l.split("\t")[:2]) for l in (HERE / "names.tsv").read_text().splitlines()
+                if not l.startswith("#")]
+    if found != labelled:
+        sys.exit("score.py: names.tsv does not label exactly the occurrences of names-found.tsv")
     expected = load_jsonl(HERE / "expected.jsonl")
     with tempfile.TemporaryDirectory() as tmp:
         work = Path(args[args.index("--keep") + 1]) if "--keep" in args else Path(tmp)
