@@ -59,6 +59,14 @@ std::map<std::string, std::string> snapshot(const TempDir& d) {
   return files;
 }
 
+// Puts every file of `d` back as in `before` (so that a case that failed on a faulty build
+// does not spoil the next one): new files removed, changed ones rewritten.
+void restore(const TempDir& d, const std::map<std::string, std::string>& before) {
+  for (const auto& [path, bytes] : snapshot(d))
+    if (!before.count(path)) std::filesystem::remove(path);
+  for (const auto& [path, bytes] : before) write_file(path, bytes);
+}
+
 struct Case {
   const char* what;  // the options that clash
   std::string args;
@@ -75,6 +83,7 @@ void check_refused(const TempDir& d, const std::vector<Case>& cases) {
     CHECK(code == kUsage);
     CHECK(snapshot(d) == before);
     CHECK(read_file(d.file("stderr")).find("refusing to overwrite") != std::string::npos);
+    restore(d, before);
   }
 }
 
@@ -212,6 +221,7 @@ TEST_CASE("a failing later output leaves none of the run's outputs") {
     CHECK(snapshot(d) == before);
     for (const auto& e : std::filesystem::directory_iterator(d.path()))
       CHECK(e.path().filename().string().find(".tmp-") == std::string::npos);
+    restore(d, before);
   }
   // tally: the tally and the rejects form one set too.
   const auto before = snapshot(d);
