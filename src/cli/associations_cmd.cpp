@@ -45,6 +45,13 @@ int associations_command(const std::vector<std::string>& args) {
     print_error("associations: --window must be at least 1 and --prior above 0");
     return kUsage;
   }
+  std::vector<io::NamedPath> ins;
+  for (const auto& p : before) ins.push_back({p, "--in"});
+  for (const auto& p : after) ins.push_back({p, "--after"});
+  ins.push_back({targets_path, "--targets"});
+  add_pack_input(ins, pack_name);
+  rc = check_outputs("associations", ins, {{out, "--out"}});
+  if (rc >= 0) return rc;
   if (fields.empty()) fields = {"/text"};
   review::CorpusLayout layout;
   rc = corpus_layout("associations", nullptr, format, paragraphs, "", layout);
@@ -93,10 +100,6 @@ int associations_command(const std::vector<std::string>& args) {
     review::CooccurrenceCounter counter(pack, rep.targets, ao.window);
     std::vector<std::pair<std::string, std::string>> inputs;
     for (const auto& p : paths) {
-      if (p == out) {
-        print_error("associations: --out names an input: " + p);
-        return kUsage;
-      }
       auto sha = review::for_each_fields(
           p, layout, fields, [&](std::span<const std::string_view> f) { counter.add_record(f); });
       if (!sha.ok()) return report(sha.error());

@@ -46,6 +46,7 @@ int main(int argc, char** argv) {
   std::string cmd = argv[1];
   std::vector<std::string> rest(all.begin() + 2, all.end());
   try {
+    install_stop_signals();
     if (cmd == "--help" || cmd == "-h" || cmd == "help") {
       std::cout << kUsageText;
       return kOk;

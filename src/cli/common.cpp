@@ -1,10 +1,17 @@
 #include "cli/common.h"
 
+#include <pthread.h>
+#include <signal.h>
+#include <unistd.h>
+
 #include <ctime>
+#include <filesystem>
 #include <iostream>
+#include <thread>
 
 #include "cli/cli.h"
 #include "io/sink.h"
+#include "io/temp_files.h"
 
 namespace evenhand::cli {
 
@@ -59,6 +66,41 @@ std::string utc_now() {
   char buf[32];
   std::strftime(buf, sizeof buf, "%Y-%m-%dT%H:%M:%SZ", &tm);
   return buf;
+}
+
+int check_outputs(const std::string& command, const std::vector<io::NamedPath>& inputs,
+                  const std::vector<io::NamedPath>& outputs) {
+  Status s = io::check_outputs_distinct(inputs, outputs);
+  if (s.ok()) return -1;
+  print_error(command + ": " + s.error().message());
+  return kUsage;
+}
+
+void add_pack_input(std::vector<io::NamedPath>& inputs, const std::string& pack) {
+  std::error_code ec;
+  if (!pack.empty() && std::filesystem::is_directory(pack, ec)) inputs.push_back({pack, "--pack"});
+}
+
+void install_stop_signals() {
+  sigset_t set;
+  sigemptyset(&set);
+  bool any = false;
+  for (int sig : {SIGINT, SIGTERM, SIGHUP}) {
+    struct sigaction old;
+    if (::sigaction(sig, nullptr, &old) == 0 && old.sa_handler == SIG_IGN) continue;
+    sigaddset(&set, sig);
+    any = true;
+  }
+  if (!any || ::pthread_sigmask(SIG_BLOCK, &set, nullptr) != 0) return;
+  // Blocked in every thread (they all start later and inherit the mask), so only this one
+  // receives them, as an ordinary thread that may lock the temporary-file registry.
+  std::thread([set] {
+    int sig = 0;
+    while (::sigwait(&set, &sig) != 0) {
+    }
+    io::abandon_temp_files();
+    ::_exit(128 + sig);
+  }).detach();
 }
 
 Status write_file_atomic(const std::string& path, const std::string& text) {

@@ -6,6 +6,7 @@
 #include <vector>
 
 #include "base/status.h"
+#include "io/paths.h"
 
 namespace evenhand::cli {
 
@@ -27,6 +28,21 @@ int parse_args(const std::string& command, const std::string& synopsis,
 
 // The current UTC time as ISO 8601 ("2026-12-01T22:11:04Z").
 std::string utc_now();
+
+// Refuses an output that would replace an input or another output
+// (io::check_outputs_distinct): prints why and returns kUsage; else returns -1.
+int check_outputs(const std::string& command, const std::vector<io::NamedPath>& inputs,
+                  const std::vector<io::NamedPath>& outputs);
+
+// Adds --pack to `inputs` when it names a directory (files under it are then kept from
+// being overwritten); a built-in pack's name names no file.
+void add_pack_input(std::vector<io::NamedPath>& inputs, const std::string& pack);
+
+// SIGINT, SIGTERM and SIGHUP: from now on (call before any thread starts) one thread waits
+// for them, removes every temporary output file and exits with 128 + the signal's number;
+// a set of outputs being renamed into place is completed first. Signals that were ignored
+// when evenhand started (nohup) stay ignored.
+void install_stop_signals();
 
 // Writes `text` to `path` all-or-nothing ("-" is stdout).
 Status write_file_atomic(const std::string& path, const std::string& text);

@@ -171,6 +171,17 @@ int load_engine(const std::string& cmd, CorpusArgs& a, bool pack_optional) {
   return -1;
 }
 
+std::vector<io::NamedPath> corpus_inputs(const CorpusArgs& a) {
+  std::vector<io::NamedPath> ins;
+  for (const auto& in : a.ro.inputs) ins.push_back({in, "--in"});
+  add_pack_input(ins, a.pack_name);
+  return ins;
+}
+
+std::vector<io::NamedPath> corpus_side_outputs(const CorpusArgs& a) {
+  return {{a.ro.quarantine_path, "--quarantine"}, {a.ro.rejects_path, "--rejects"}};
+}
+
 void attach_reporting(CorpusArgs& a, bool& shown) {
   bool quiet = a.quiet;
   if (!quiet && isatty(STDERR_FILENO)) {

@@ -47,6 +47,11 @@ int load_engine(const std::string& command, CorpusArgs& a, bool pack_optional);
 void attach_reporting(CorpusArgs& a, bool& shown);
 void clear_progress(bool shown);
 
+// The files the shared options read (--in, a --pack directory) and write (--quarantine,
+// --rejects), named by option for check_outputs().
+std::vector<io::NamedPath> corpus_inputs(const CorpusArgs& a);
+std::vector<io::NamedPath> corpus_side_outputs(const CorpusArgs& a);
+
 // Parses "16M", "512K", "1G" or a plain byte count.
 bool parse_size(const std::string& s, size_t& out);
 

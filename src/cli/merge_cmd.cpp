@@ -251,6 +251,10 @@ int merge_manifests_command(const std::vector<std::string>& args) {
     print_error("merge-manifests: give the shard manifests and --out");
     return kUsage;
   }
+  std::vector<io::NamedPath> ins;
+  for (const auto& in : inputs) ins.push_back({in, "--manifest"});
+  rc = check_outputs("merge-manifests", ins, {{out, "--out"}});
+  if (rc >= 0) return rc;
   simdjson::dom::parser parser;
   JVal total;
   JVal shards;

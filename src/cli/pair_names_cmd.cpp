@@ -29,13 +29,20 @@ int pair_names_command(const std::vector<std::string>& args) {
     print_error("pair-names: give at least two --group GROUP=FILE");
     return kUsage;
   }
-  std::vector<pack::NameList> lists;
+  std::vector<io::NamedPath> ins;
   for (const auto& g : groups) {
     size_t eq = g.find('=');
     if (eq == std::string::npos || eq == 0 || eq + 1 == g.size()) {
       print_error("pair-names: --group takes GROUP=FILE, not '" + g + "'");
       return kUsage;
     }
+    ins.push_back({g.substr(eq + 1), "--group"});
+  }
+  rc = check_outputs("pair-names", ins, {{out, "--out"}});
+  if (rc >= 0) return rc;
+  std::vector<pack::NameList> lists;
+  for (const auto& g : groups) {
+    size_t eq = g.find('=');
     auto list = pack::read_name_counts_file(g.substr(eq + 1));
     if (!list.ok()) return report(list.error());
     list->group = g.substr(0, eq);

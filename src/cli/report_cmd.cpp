@@ -65,16 +65,21 @@ int report_command(const std::vector<std::string>& args) {
     print_error("report: give --manifest and --out");
     return kUsage;
   }
-  for (const auto& in : {manifest, edits, assoc}) {
-    if (!in.empty() && in == out) {
-      print_error("report: --out names an input: " + out);
-      return kUsage;
-    }
-  }
+  std::vector<io::NamedPath> ins = {
+      {manifest, "--manifest"}, {edits, "--edits"}, {assoc, "--associations"}};
+  rc = check_outputs("report", ins, {{out, "--out"}});
+  if (rc >= 0) return rc;
   auto m = review::read_manifest(manifest);
   if (!m.ok()) return report(m.error());
   review::CorpusLayout layout;
   rc = corpus_layout("report", &*m, format, paragraphs, root, layout);
+  if (rc >= 0) return rc;
+  // The corpus files the audit log points at are read too.
+  for (const auto& f : m->inputs)
+    ins.push_back({review::resolve_input(f.path, layout), "the manifest's input"});
+  for (const auto& f : m->outputs)
+    ins.push_back({review::resolve_input(f.path, layout), "the manifest's output"});
+  rc = check_outputs("report", ins, {{out, "--out"}});
   if (rc >= 0) return rc;
 
   review::ReportInput in;

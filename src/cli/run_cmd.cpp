@@ -125,6 +125,48 @@ void print_plan(const balance::Plan& p) {
   }
 }
 
+// The run's manifest; `plan` is the applied plan in balance mode, else null.
+std::string run_manifest(const std::vector<std::string>& argv_all, const CorpusArgs& a,
+                         const std::string& mode, const std::string& started,
+                         const pipeline::RunResult& r, const balance::Plan* plan,
+                         const std::string& plan_source, double tolerance) {
+  const pipeline::RunOptions& ro = a.ro;
+  audit::ManifestData md;
+  md.command_line = argv_all;
+  md.pack = a.pack.get();
+  md.options = {
+      {"mode", json_string(mode)},
+      {"format", json_string(a.format)},
+      {"paragraphs", a.paragraphs ? "true" : "false"},
+      {"fields", json_strings(ro.fields)},
+      {"seed", std::to_string(ro.seed)},
+      {"rate", json_number(ro.rate)},
+      {"id_field", json_string(ro.id_pointer)},
+      {"on_bad_record", json_string(a.on_bad)},
+      {"max_record_bytes", std::to_string(ro.max_record_bytes)},
+      {"provenance", ro.provenance ? "true" : "false"},
+      {"toward", a.toward.empty() ? "null" : json_string(a.toward)},
+      {"themselves", a.themselves ? "true" : "false"},
+      {"on_flagged", json_string(a.on_flagged)},
+  };
+  md.stats = &r.stats;
+  md.inputs = r.inputs;
+  md.outputs = r.outputs;
+  md.first_rejections = r.first_rejections;
+  md.seconds = r.seconds;
+  md.threads = r.threads;
+  md.started_at = started;
+  if (plan && a.pack) {
+    md.planned_basis = balance::basis_name(plan->basis);
+    md.planned.assign(a.pack->groups().size(), std::nan(""));
+    for (const auto& o : plan->outcome) {
+      if (auto g = a.pack->group_index(o.group)) md.planned[*g] = o.after;
+    }
+    md.balance_json = balance_section(*plan, plan_source, tolerance, r.stats);
+  }
+  return audit::render_manifest(md);
+}
+
 }  // namespace
 
 int run_command(const std::vector<std::string>& args, const std::vector<std::string>& argv_all) {
@@ -182,11 +224,14 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
     print_error("run: no output given (--out PATH)");
     return kUsage;
   }
-  for (const auto& in : ro.inputs) {
-    if (!manifest_path.empty() && in == manifest_path && in != "-") {
-      print_error("run: --manifest names an input file; refusing to overwrite it");
-      return kUsage;
-    }
+  {
+    std::vector<io::NamedPath> ins = corpus_inputs(a), outs = {{ro.output, "--out"}};
+    ins.push_back({b.plan_path, "--plan"});
+    outs.push_back({ro.edits_path, "--edits"});
+    for (auto& o : corpus_side_outputs(a)) outs.push_back(std::move(o));
+    outs.push_back({manifest_path, "--manifest"});
+    rc = check_outputs("run", ins, outs);
+    if (rc >= 0) return rc;
   }
   bool balance_mode = ro.mode == pipeline::Mode::balance;
   if (balance_mode) {
@@ -257,6 +302,7 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
       tro.quarantine_path.clear();
       tro.rejects_path.clear();
       tro.on_rejection = nullptr;
+      tro.before_publish = nullptr;
       auto tallied = pipeline::run(tro, *a.engine);
       clear_progress(shown);
       if (!tallied.ok()) return report(tallied.error());
@@ -269,49 +315,19 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
     ro.plan = &plan;
   }
 
+  if (manifest_sink) {
+    // The manifest joins the run's outputs: written before any is renamed, renamed last.
+    ro.before_publish = [&](const pipeline::RunResult& r, io::OutputSet& set) -> Status {
+      EVENHAND_TRY(manifest_sink->write(run_manifest(
+          argv_all, a, mode, started, r, balance_mode ? &plan : nullptr, plan_source, tolerance)));
+      set.add(*manifest_sink);
+      return ok_status();
+    };
+  }
   auto result = pipeline::run(ro, *a.engine);
   clear_progress(shown);
   if (!result.ok()) return report(result.error());
   const auto& r = *result;
-
-  if (manifest_sink) {
-    audit::ManifestData md;
-    md.command_line = argv_all;
-    md.pack = a.pack.get();
-    md.options = {
-        {"mode", json_string(mode)},
-        {"format", json_string(a.format)},
-        {"paragraphs", a.paragraphs ? "true" : "false"},
-        {"fields", json_strings(ro.fields)},
-        {"seed", std::to_string(ro.seed)},
-        {"rate", json_number(ro.rate)},
-        {"id_field", json_string(ro.id_pointer)},
-        {"on_bad_record", json_string(a.on_bad)},
-        {"max_record_bytes", std::to_string(ro.max_record_bytes)},
-        {"provenance", ro.provenance ? "true" : "false"},
-        {"toward", a.toward.empty() ? "null" : json_string(a.toward)},
-        {"themselves", a.themselves ? "true" : "false"},
-        {"on_flagged", json_string(a.on_flagged)},
-    };
-    md.stats = &r.stats;
-    md.inputs = r.inputs;
-    md.outputs = r.outputs;
-    md.first_rejections = r.first_rejections;
-    md.seconds = r.seconds;
-    md.threads = r.threads;
-    md.started_at = started;
-    if (balance_mode && a.pack) {
-      md.planned_basis = balance::basis_name(plan.basis);
-      md.planned.assign(a.pack->groups().size(), std::nan(""));
-      for (const auto& o : plan.outcome) {
-        if (auto g = a.pack->group_index(o.group)) md.planned[*g] = o.after;
-      }
-      md.balance_json = balance_section(plan, plan_source, tolerance, r.stats);
-    }
-    Status s = manifest_sink->write(audit::render_manifest(md));
-    if (s.ok()) s = manifest_sink->commit();
-    if (!s.ok()) return report(s.error());
-  }
 
   if (!a.quiet) {
     const auto& st = r.stats;
@@ -349,15 +365,27 @@ int tally_command(const std::vector<std::string>& args) {
     print_error("tally: no output given (--out PATH)");
     return kUsage;
   }
+  std::vector<io::NamedPath> outs = corpus_side_outputs(a);
+  outs.insert(outs.begin(), {out, "--out"});
+  rc = check_outputs("tally", corpus_inputs(a), outs);
+  if (rc >= 0) return rc;
   rc = load_engine("tally", a, false);
   if (rc >= 0) return rc;
+  io::SinkOptions so;
+  so.compression = io::Compression::none;
+  auto sink = io::Sink::create(out, so);
+  if (!sink.ok()) return report(sink.error());
+  // The tally joins the run's outputs (rejects, quarantine): all appear or none.
+  a.ro.before_publish = [&](const pipeline::RunResult& res, io::OutputSet& set) -> Status {
+    EVENHAND_TRY((*sink)->write(balance::tally_to_json(res.tally)));
+    set.add(**sink);
+    return ok_status();
+  };
   bool shown = false;
   attach_reporting(a, shown);
   auto r = pipeline::run(a.ro, *a.engine);
   clear_progress(shown);
   if (!r.ok()) return report(r.error());
-  Status s = write_file_atomic(out, balance::tally_to_json(r->tally));
-  if (!s.ok()) return report(s.error());
   if (!a.quiet) {
     std::fprintf(stderr, "evenhand: tallied %llu records (%llu rejected) into %s\n",
                  static_cast<unsigned long long>(r->stats.records_read),
@@ -386,6 +414,10 @@ int plan_command(const std::vector<std::string>& args) {
     print_error("plan: --tally, --target and --out are required");
     return kUsage;
   }
+  std::vector<io::NamedPath> ins;
+  for (const auto& t : tallies) ins.push_back({t, "--tally"});
+  rc = check_outputs("plan", ins, {{out, "--out"}});
+  if (rc >= 0) return rc;
   balance::Tally merged;
   for (const auto& t : tallies) {
     auto text = read_whole(t);

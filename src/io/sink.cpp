@@ -15,6 +15,8 @@
 #include <vector>
 
 #include "base/sha256.h"
+#include "io/output_set.h"
+#include "io/temp_files.h"
 
 namespace evenhand::io {
 
@@ -77,6 +79,7 @@ struct Sink::Impl {
   z_stream gz;
   bool gz_ready = false;
   Sha256 hash;
+  bool finished = false;
   bool committed = false;
   bool aborted = false;
 
@@ -95,9 +98,23 @@ struct Sink::Impl {
     if (fd >= 0 && target != Target::stdout_fd) ::close(fd);
     fd = -1;
     if (target == Target::temp_file && !temp_path.empty()) {
-      ::unlink(temp_path.c_str());
-      temp_path.clear();
+      auto lock = temp_files::lock();
+      remove_locked();
     }
+  }
+
+  // Removes the temporary file; the caller holds temp_files::lock().
+  void remove_locked() {
+    if (temp_path.empty()) return;
+    ::unlink(temp_path.c_str());
+    temp_files::remove(temp_path);
+    temp_path.clear();
+  }
+
+  // The directory of the final path.
+  std::string final_dir() const {
+    const size_t slash = final_path.rfind('/');
+    return slash == std::string::npos ? "." : slash == 0 ? "/" : final_path.substr(0, slash);
   }
 
   // Writes `size` bytes to the descriptor, retrying on EINTR and short writes.
@@ -166,15 +183,23 @@ Result<std::unique_ptr<Sink>> Sink::create(const std::string& path, const SinkOp
       std::string tmpl = (dir == "/" ? "" : dir) + "/." + base + ".tmp-XXXXXX";
       std::vector<char> name(tmpl.begin(), tmpl.end());
       name.push_back('\0');
-      im.fd = ::mkostemp(name.data(), O_CLOEXEC);
+      int err = 0;
+      {
+        // Created and registered under one lock, so a stopping process removes it too.
+        auto lock = temp_files::lock();
+        im.fd = ::mkostemp(name.data(), O_CLOEXEC);
+        err = errno;
+        if (im.fd >= 0) {
+          im.temp_path = name.data();
+          temp_files::add(im.temp_path);
+        }
+      }
       if (im.fd < 0) {
-        const int err = errno;
         if (err == ENOENT || err == ENOTDIR) {
           return im.error("output directory does not exist: " + dir);
         }
         return im.error("cannot create a file in " + dir + ": " + errno_text(err));
       }
-      im.temp_path = name.data();
     }
   }
 
@@ -210,7 +235,9 @@ Result<std::unique_ptr<Sink>> Sink::create(const std::string& path, const SinkOp
 
 Status Sink::write(std::string_view bytes) {
   Impl& im = *impl_;
-  if (im.committed) return make_error(ErrorKind::internal, path_, "write after commit");
+  if (im.committed || im.finished) {
+    return make_error(ErrorKind::internal, path_, "write after finish");
+  }
   if (im.aborted) return im.error("write to an aborted output");
   Status st = ok_status();
   switch (compression_) {
@@ -268,10 +295,10 @@ Status Sink::write(std::string_view bytes) {
   return st;
 }
 
-Status Sink::commit() {
+Status Sink::finish() {
   Impl& im = *impl_;
-  if (im.committed) return ok_status();
-  if (im.aborted) return im.error("commit of an aborted output");
+  if (im.finished || im.committed) return ok_status();
+  if (im.aborted) return im.error("finish of an aborted output");
   Status st = ok_status();
   auto fail = [&](Error e) -> Status {
     abort();
@@ -319,29 +346,54 @@ Status Sink::commit() {
     const int fd = im.fd;
     im.fd = -1;
     if (::close(fd) != 0) return fail(im.error(write_failure(errno)));
-    if (::rename(im.temp_path.c_str(), im.final_path.c_str()) != 0) {
-      return fail(im.error("cannot rename into place: " + errno_text(errno)));
-    }
-    im.temp_path.clear();
-    // Make the rename itself durable; a failure here does not undo the committed file.
-    const size_t slash = im.final_path.rfind('/');
-    const std::string dir = slash == std::string::npos ? "."
-                            : slash == 0               ? "/"
-                                                       : im.final_path.substr(0, slash);
-    const int dfd = ::open(dir.c_str(), O_RDONLY | O_DIRECTORY | O_CLOEXEC);
-    if (dfd >= 0) {
-      (void)::fsync(dfd);
-      ::close(dfd);
-    }
   } else if (im.target == Impl::Target::direct) {
     const int fd = im.fd;
     im.fd = -1;
     if (::close(fd) != 0) return fail(im.error(write_failure(errno)));
   }
   // stdout: everything has been written with write(2); nothing is buffered in stdio.
-  im.committed = true;
+  im.finished = true;
   sha256_ = im.hash.finish_hex();
   return ok_status();
+}
+
+Status Sink::commit() {
+  OutputSet set;
+  set.add(*this);
+  return set.commit();
+}
+
+Status Sink::publish_locked() {
+  Impl& im = *impl_;
+  if (im.committed) return ok_status();
+  if (!im.finished) return make_error(ErrorKind::internal, path_, "rename of an unfinished output");
+  if (im.target == Impl::Target::temp_file) {
+    if (::rename(im.temp_path.c_str(), im.final_path.c_str()) != 0) {
+      Error e = im.error("cannot rename into place: " + errno_text(errno));
+      discard_locked();
+      return e;
+    }
+    temp_files::remove(im.temp_path);
+    im.temp_path.clear();
+  }
+  im.committed = true;
+  return ok_status();
+}
+
+void Sink::discard_locked() {
+  if (impl_->committed) return;
+  impl_->aborted = true;
+  impl_->remove_locked();
+}
+
+bool Sink::is_directory_now() const {
+  struct stat st;
+  return impl_->target == Impl::Target::temp_file && ::lstat(path_.c_str(), &st) == 0 &&
+         S_ISDIR(st.st_mode);
+}
+
+std::string Sink::directory() const {
+  return impl_->target == Impl::Target::temp_file ? impl_->final_dir() : std::string();
 }
 
 }  // namespace evenhand::io

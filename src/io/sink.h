@@ -1,6 +1,7 @@
 // Byte sinks with all-or-nothing semantics: output goes to a temporary file beside the target
-// and is renamed into place only by commit(); a sink destroyed or aborted before commit()
-// leaves nothing under the final name. Optional zstd or gzip compression; "-" is stdout.
+// and is renamed into place only by commit() (or by an OutputSet, with other outputs); a sink
+// destroyed or aborted before that leaves nothing under the final name. Optional zstd or gzip
+// compression; "-" is stdout.
 #pragma once
 
 #include <cstdint>
@@ -23,6 +24,8 @@ struct SinkOptions {
 };
 
 // Not copyable; not thread-safe.
+class OutputSet;
+
 class Sink {
  public:
   ~Sink();  // aborts unless committed
@@ -36,7 +39,11 @@ class Sink {
   // Appends bytes (compressing as configured). Errors (kind output) on write failure, e.g. a
   // full disk; after an error the sink is aborted.
   Status write(std::string_view bytes);
-  // Finishes compression, flushes, fsyncs and renames the temporary file to the final path.
+  // Finishes compression, flushes, fsyncs and closes the file, still under its temporary
+  // name; afterwards bytes_written() and sha256() are final. Safe to call more than once.
+  // Errors (kind output) on write failure; after an error the sink is aborted.
+  Status finish();
+  // finish(), then renames the temporary file to the final path (a one-member OutputSet).
   Status commit();
   // Removes the temporary file. Safe to call more than once.
   void abort();
@@ -45,11 +52,17 @@ class Sink {
   Compression compression() const { return compression_; }
   // Bytes written to the file so far (after compression).
   uint64_t bytes_written() const { return bytes_written_; }
-  // Hex SHA-256 of the bytes written to the file; valid after commit().
+  // Hex SHA-256 of the bytes written to the file; valid after finish().
   const std::string& sha256() const { return sha256_; }
 
  private:
+  friend class OutputSet;
   Sink();
+  // For OutputSet, which holds the temporary-file lock (io/temp_files.h) around these.
+  Status publish_locked();        // renames a finished sink's file into place
+  void discard_locked();          // removes the temporary file
+  bool is_directory_now() const;  // the final name is a directory (renaming would fail)
+  std::string directory() const;  // the directory a rename changes; empty when none
   struct Impl;
   std::unique_ptr<Impl> impl_;
   std::string path_;

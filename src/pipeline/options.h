@@ -10,9 +10,12 @@
 #include "balance/plan.h"
 #include "base/status.h"
 #include "corpus/records.h"
+#include "io/output_set.h"
 #include "io/sink.h"
 
 namespace evenhand::pipeline {
+
+struct RunResult;  // pipeline/run.h
 
 enum class Format { jsonl, text };
 
@@ -65,6 +68,11 @@ struct RunOptions {
   std::function<void(const Progress&)> on_progress;
   // Called from the writer thread for every rejected record, in input order.
   std::function<void(const Error&)> on_rejection;
+  // Called once every output is complete under its temporary name, before any is renamed
+  // into place; `result` has the outputs' sizes and hashes. It may add sinks (a manifest) to
+  // `outputs`: they are renamed after the run's own, in the order added. An error aborts
+  // every output and becomes the run's error.
+  std::function<Status(const RunResult& result, io::OutputSet& outputs)> before_publish;
 };
 
 // Name of the provenance member added with RunOptions::provenance.

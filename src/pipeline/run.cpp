@@ -13,6 +13,8 @@
 #include "audit/json_writer.h"
 #include "corpus/json_pointer.h"
 #include "corpus/records.h"
+#include "io/output_set.h"
+#include "io/paths.h"
 #include "io/sink.h"
 #include "io/source.h"
 #include "pipeline/queue.h"
@@ -55,15 +57,6 @@ struct Batch {
 };
 
 using BatchPtr = std::unique_ptr<Batch>;
-
-bool same_file(const std::string& a, const std::string& b) {
-  if (a == "-" || b == "-") return false;
-  std::error_code ec;
-  if (std::filesystem::equivalent(a, b, ec)) return true;
-  auto ca = std::filesystem::weakly_canonical(a, ec);
-  auto cb = std::filesystem::weakly_canonical(b, ec);
-  return !ec && ca == cb;
-}
 
 // The ordered hand-over from workers to the writer.
 class Reorder {
@@ -112,6 +105,7 @@ class Runner {
   void worker_main();
   void process_batch(Batch& b, RecordProcessor& proc);
   Status write_batch(Batch& b);
+  Status publish();
   void stop_all();
   BatchPtr new_batch(uint32_t input);
   void send(BatchPtr b);
@@ -173,27 +167,13 @@ Status Runner::prepare() {
   for (const auto& in : opt_.inputs) names_.push_back(in == "-" ? "<stdin>" : in);
 
   // No output may overwrite an input or another output.
-  std::vector<std::pair<std::string, const char*>> outs;
-  if (!opt_.output.empty()) outs.push_back({opt_.output, "--out"});
-  if (!opt_.edits_path.empty()) outs.push_back({opt_.edits_path, "--edits"});
-  if (!opt_.quarantine_path.empty()) outs.push_back({opt_.quarantine_path, "--quarantine"});
-  if (!opt_.rejects_path.empty()) outs.push_back({opt_.rejects_path, "--rejects"});
-  for (size_t i = 0; i < outs.size(); ++i) {
-    for (const auto& in : opt_.inputs) {
-      if (same_file(outs[i].first, in)) {
-        return make_error(
-            ErrorKind::usage, outs[i].first,
-            std::string(outs[i].second) + " names an input file; refusing to overwrite it");
-      }
-    }
-    for (size_t j = 0; j < i; ++j) {
-      if (outs[i].first != "-" && same_file(outs[i].first, outs[j].first)) {
-        return make_error(
-            ErrorKind::usage, outs[i].first,
-            std::string(outs[i].second) + " and " + outs[j].second + " name the same file");
-      }
-    }
-  }
+  std::vector<io::NamedPath> ins, outs;
+  for (const auto& in : opt_.inputs) ins.push_back({in, "--in"});
+  outs.push_back({opt_.output, "--out"});
+  outs.push_back({opt_.edits_path, "--edits"});
+  outs.push_back({opt_.quarantine_path, "--quarantine"});
+  outs.push_back({opt_.rejects_path, "--rejects"});
+  EVENHAND_TRY(io::check_outputs_distinct(ins, outs));
 
   auto make = [](const std::string& path, const io::SinkOptions& so,
                  std::unique_ptr<io::Sink>& into) -> Status {
@@ -369,6 +349,44 @@ Status Runner::write_batch(Batch& b) {
   return ok_status();
 }
 
+// Finishes every output, describes them in result_, lets the caller add its own (the
+// manifest), then renames the whole set into place; any failure leaves no final name.
+Status Runner::publish() {
+  struct Named {
+    io::Sink* sink;
+    const char* role;
+    uint64_t records;
+  };
+  const audit::Stats& st = result_.stats;
+  const Named named[] = {{out_.get(), "corpus", st.records_written},
+                         {edits_.get(), "edits", st.audit_lines},
+                         {quarantine_.get(), "quarantine", st.quarantined},
+                         {rejects_.get(), "rejects", st.records_rejected}};
+  io::OutputSet set;
+  for (const auto& n : named)
+    if (n.sink) set.add(*n.sink);
+  EVENHAND_TRY(set.finish());
+  for (const auto& n : named) {
+    if (!n.sink) continue;
+    FileInfo f;
+    f.path = n.sink->path();
+    f.compression = io::compression_name(n.sink->compression());
+    f.bytes = n.sink->bytes_written();
+    f.sha256 = n.sink->sha256();
+    f.records = n.records;
+    f.role = n.role;
+    result_.outputs.push_back(std::move(f));
+  }
+  if (opt_.before_publish) {
+    Status s = opt_.before_publish(result_, set);
+    if (!s.ok()) {
+      set.abort();
+      return s;
+    }
+  }
+  return set.commit();
+}
+
 void Runner::stop_all() {
   stop_ = true;
   work_.close();
@@ -432,34 +450,8 @@ Result<RunResult> Runner::run() {
     return std::move(status).error();
   }
 
-  struct Named {
-    std::unique_ptr<io::Sink>* sink;
-    const char* role;
-    uint64_t records;
-  };
-  const audit::Stats& st = result_.stats;
-  Named named[] = {{&out_, "corpus", st.records_written},
-                   {&edits_, "edits", st.audit_lines},
-                   {&quarantine_, "quarantine", st.quarantined},
-                   {&rejects_, "rejects", st.records_rejected}};
-  for (auto& n : named) {
-    if (!*n.sink) continue;
-    Status s = (*n.sink)->commit();
-    if (!s.ok()) {
-      for (auto& m : named)
-        if (*m.sink) (*m.sink)->abort();
-      return std::move(s).error();
-    }
-    FileInfo f;
-    f.path = (*n.sink)->path();
-    f.compression = io::compression_name((*n.sink)->compression());
-    f.bytes = (*n.sink)->bytes_written();
-    f.sha256 = (*n.sink)->sha256();
-    f.records = n.records;
-    f.role = n.role;
-    result_.outputs.push_back(std::move(f));
-  }
   result_.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  EVENHAND_TRY(publish());
   return std::move(result_);
 }
 
