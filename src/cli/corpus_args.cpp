@@ -198,7 +198,7 @@ void attach_reporting(CorpusArgs& a, bool& shown) {
     constexpr uint64_t kShow = 10;
     if (shown) std::fputs("\r\033[K", stderr);
     if (*count < kShow) {
-      print_error("rejected: " + e.message());
+      print_error(e.message());
     } else if (*count == kShow) {
       print_error("more records rejected; counts are in the manifest" +
                   std::string(rejects.empty() ? "" : " and every one in " + rejects));
