@@ -1,6 +1,8 @@
 // `evenhand associations`: measures how strongly each target word co-occurs with each
 // group's words in a corpus and, with --after, in its augmented output; writes JSON
 // (schema evenhand.associations/1) that `report --associations` shows.
+#include <cmath>
+
 #include "cli/cli.h"
 #include "cli/common.h"
 #include "cli/review_args.h"
@@ -26,10 +28,10 @@ int associations_command(const std::vector<std::string>& args) {
     ("format", po::value(&format), "jsonl (default) or text")
     ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
     ("targets", po::value(&targets_path), "target word list (default: the pack's targets.data)")
-    ("window", po::value(&ao.window), "context: words on either side of a group word (default 10)")
-    ("prior", po::value(&ao.prior), "alpha_0, total weight of the Dirichlet prior (default 100)")
-    ("permutations", po::value(&ao.permutations), "permutation test draws (default 999; 0: none)")
-    ("seed", po::value(&ao.seed), "seed of the permutation test (default 0)")
+    ("window", whole_number("--window", &ao.window, 1, 1000), "context: words on either side of a group word, 1 to 1000 (default 10)")
+    ("prior", real_number("--prior", &ao.prior, {0, HUGE_VAL, true}), "alpha_0, total weight of the Dirichlet prior, above 0 (default 100)")
+    ("permutations", whole_number("--permutations", &ao.permutations, 0, 1000000), "permutation test draws, 0 to 1000000 (default 999; 0: none)")
+    ("seed", whole_number("--seed", &ao.seed, 0, UINT64_MAX), "seed of the permutation test, 0 to 2^64-1 (default 0)")
     ("out", po::value(&out), "write the JSON here ('-' is stdout)");
   // clang-format on
   po::variables_map vm;
@@ -39,10 +41,6 @@ int associations_command(const std::vector<std::string>& args) {
   if (rc >= 0) return rc;
   if (pack_name.empty() || before.empty() || out.empty()) {
     print_error("associations: give --pack, --in and --out");
-    return kUsage;
-  }
-  if (ao.window == 0 || !(ao.prior > 0)) {
-    print_error("associations: --window must be at least 1 and --prior above 0");
     return kUsage;
   }
   std::vector<io::NamedPath> ins;

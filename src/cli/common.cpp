@@ -4,9 +4,11 @@
 #include <signal.h>
 #include <unistd.h>
 
+#include <cmath>
 #include <ctime>
 #include <filesystem>
 #include <iostream>
+#include <sstream>
 #include <thread>
 
 #include "cli/cli.h"
@@ -57,6 +59,42 @@ int parse_args(const std::string& command, const std::string& synopsis,
     return kUsage;
   }
   return -1;
+}
+
+void bad_number(const std::string& name, const std::string& what, const std::string& text) {
+  throw po::error(name + " must be " + what + ", not '" + text + "'");
+}
+
+namespace {
+
+std::string shortest(double d) {
+  std::ostringstream os;
+  os << d;
+  return os.str();
+}
+
+// "a number from 0 to 1", "a number above 0 and below 1", "a number above 0".
+std::string describe(const RealRange& r) {
+  bool closed = !r.lo_open && !r.hi_open;
+  std::string s = "a number ";
+  s += r.lo_open ? "above " : closed ? "from " : "at least ";
+  s += shortest(r.lo);
+  if (std::isinf(r.hi)) return s;
+  if (closed) return s + " to " + shortest(r.hi);
+  return s + " and " + (r.hi_open ? "below " : "at most ") + shortest(r.hi);
+}
+
+}  // namespace
+
+po::typed_value<std::string>* real_number(const std::string& name, double* out, RealRange r) {
+  return po::value<std::string>()->notifier([name, out, r](const std::string& text) {
+    double v = 0;
+    auto [end, ec] = std::from_chars(text.data(), text.data() + text.size(), v);
+    bool fits = ec == std::errc() && end == text.data() + text.size() && std::isfinite(v) &&
+                (r.lo_open ? v > r.lo : v >= r.lo) && (r.hi_open ? v < r.hi : v <= r.hi);
+    if (!fits) bad_number(name, describe(r), text);
+    *out = v;
+  });
 }
 
 std::string utc_now() {

@@ -2,7 +2,10 @@
 #pragma once
 
 #include <boost/program_options.hpp>
+#include <charconv>
 #include <string>
+#include <type_traits>
+#include <utility>
 #include <vector>
 
 #include "base/status.h"
@@ -25,6 +28,42 @@ int parse_args(const std::string& command, const std::string& synopsis,
                const po::options_description& options, const std::vector<std::string>& args,
                po::variables_map& vm,
                const po::positional_options_description* positional = nullptr);
+
+// Throws the po::error that parse_args reports (exit kUsage): "--NAME must be WHAT, not
+// 'TEXT'".
+[[noreturn]] void bad_number(const std::string& name, const std::string& what,
+                             const std::string& text);
+
+// The value semantic of a whole-number option stored in `*out`: checked when the options are
+// parsed, so a fraction, trailing text, a sign on an unsigned option (which Boost would wrap
+// to a huge number) or a value outside [lo, hi] is a usage error naming `name` ("--threads")
+// and the range, before any file is opened.
+template <typename T>
+po::typed_value<std::string>* whole_number(const std::string& name, T* out,
+                                           std::type_identity_t<T> lo, std::type_identity_t<T> hi) {
+  static_assert(std::is_integral_v<T>);
+  return po::value<std::string>()->notifier([name, out, lo, hi](const std::string& text) {
+    T v{};
+    auto [end, ec] = std::from_chars(text.data(), text.data() + text.size(), v);
+    if (ec != std::errc() || end != text.data() + text.size() || v < lo || v > hi) {
+      bad_number(name, "a whole number from " + std::to_string(lo) + " to " + std::to_string(hi),
+                 text);
+    }
+    *out = v;
+  });
+}
+
+// Largest --sample of review and report: the sample is held in memory.
+inline constexpr size_t kMaxSample = 1000000;
+
+// Bounds of a real-number option; an open bound excludes its value.
+struct RealRange {
+  double lo, hi;
+  bool lo_open = false, hi_open = false;
+};
+
+// As whole_number() for a finite real number within `range` (NaN and infinities refused).
+po::typed_value<std::string>* real_number(const std::string& name, double* out, RealRange range);
 
 // The current UTC time as ISO 8601 ("2026-12-01T22:11:04Z").
 std::string utc_now();

@@ -3,6 +3,7 @@
 #include <unistd.h>
 
 #include <cstdio>
+#include <limits>
 
 #include "cli/cli.h"
 
@@ -39,6 +40,7 @@ bool parse_size(const std::string& s, size_t& out) {
     mul = 1ull << 30;
   else if (!suffix.empty())
     return false;
+  if (n > std::numeric_limits<size_t>::max() / mul) return false;
   out = static_cast<size_t>(n * mul);
   return true;
 }
@@ -53,13 +55,13 @@ void add_corpus_options(po::options_description& opts, CorpusArgs& a) {
     ("field", po::value(&a.fields)->composing(), "JSON Pointer of a string to rewrite, '*' matches every element or member; repeatable (default /text)")
     ("format", po::value(&a.format), "record format: jsonl or text (default jsonl)")
     ("paragraphs", po::bool_switch(&a.paragraphs), "text: documents are separated by blank lines instead of one per line")
-    ("seed", po::value(&ro.seed), "seed for per-record decisions (default 0)")
+    ("seed", whole_number("--seed", &ro.seed, 0, UINT64_MAX), "seed for per-record decisions, 0 to 2^64-1 (default 0)")
     ("id-field", po::value(&ro.id_pointer), "JSON Pointer of a record's identity for per-record decisions (default: a hash of its raw bytes)")
-    ("threads", po::value(&ro.threads), "worker threads (default: the machine's cores)")
+    ("threads", whole_number("--threads", &ro.threads, 0, pipeline::kMaxThreads), "worker threads, 0 to 256 (default 0: the machine's cores)")
     ("on-bad-record", po::value(&a.on_bad), "fail (default), skip, or quarantine (copy raw lines to --quarantine)")
     ("quarantine", po::value(&ro.quarantine_path), "file for rejected records' raw lines")
     ("rejects", po::value(&ro.rejects_path), "write one JSON line per rejected record (file, line, reason) here")
-    ("max-record-bytes", po::value(&a.max_bytes), "reject records longer than this (default 16M; K, M, G suffixes)")
+    ("max-record-bytes", po::value(&a.max_bytes), "reject records longer than this, 1 to 2G (default 16M; K, M, G suffixes)")
     ("protect", po::value(&a.protect)->composing(), "ICU regular expression of spans never to rewrite; repeatable")
     ("toward", po::value(&a.toward), "rewrite the other groups' forms toward this group only (e.g. neutral); default: swap the pack's first two groups")
     ("themselves", po::bool_switch(&a.themselves), "English neutral: write 'themselves' instead of 'themself'")
@@ -100,9 +102,11 @@ int finish_corpus_args(const std::string& cmd, CorpusArgs& a) {
     print_error(cmd + ": --on-bad-record must be fail, skip or quarantine, not '" + a.on_bad + "'");
     return kUsage;
   }
-  if (!parse_size(a.max_bytes, ro.max_record_bytes)) {
-    print_error(cmd + ": --max-record-bytes takes a byte count such as 16M, not '" + a.max_bytes +
-                "'");
+  if (!parse_size(a.max_bytes, ro.max_record_bytes) || ro.max_record_bytes == 0 ||
+      ro.max_record_bytes > pipeline::kMaxRecordBytesLimit) {
+    print_error(cmd +
+                ": --max-record-bytes must be a byte count from 1 to 2G (such as 16M), not '" +
+                a.max_bytes + "'");
     return kUsage;
   }
   if (a.on_flagged == "original") {
@@ -205,7 +209,7 @@ void attach_reporting(CorpusArgs& a, bool& shown) {
     constexpr uint64_t kShow = 10;
     if (shown) std::fputs("\r\033[K", stderr);
     if (*count < kShow) {
-      print_error("rejected: " + e.message());
+      print_error(e.message());
     } else if (*count == kShow) {
       print_error("more records rejected; counts are in the manifest" +
                   std::string(rejects.empty() ? "" : " and every one in " + rejects));

@@ -50,8 +50,8 @@ int report_command(const std::vector<std::string>& args) {
     ("edits", po::value(&edits), "the run's audit log: adds a sample of diffs, guarded and flagged records")
     ("associations", po::value(&assoc), "an 'evenhand associations' result to show")
     ("out", po::value(&out), "write the HTML page here (required)")
-    ("sample", po::value(&sample), "rewritten records to show, spread across pack entries (default 12)")
-    ("seed", po::value(&seed), "seed of the sample (default 0)")
+    ("sample", whole_number("--sample", &sample, 0, kMaxSample), "rewritten records to show, 0 to 1000000, spread across pack entries (default 12)")
+    ("seed", whole_number("--seed", &seed, 0, UINT64_MAX), "seed of the sample, 0 to 2^64-1 (default 0)")
     ("format", po::value(&format), "corpus format jsonl|text (default: the manifest's)")
     ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
     ("root", po::value(&root), "read relative input paths of the audit log from this directory");

@@ -71,11 +71,11 @@ int review_command(const std::vector<std::string>& args) {
     ("field", po::value(&filter.fields)->composing(), "only records with an edit in this field (JSON Pointer as logged); repeatable")
     ("flag", po::value(&filter.flags)->composing(), "only flagged records with this code ('any': all flagged); repeatable")
     ("guard", po::value(&filter.guards)->composing(), "only guarded records with this reason ('any': all guarded); repeatable")
-    ("sample", po::value(&sample), "show N records, sampled evenly across pack entries (0: all)")
-    ("seed", po::value(&seed), "seed of the sample (default 0)")
+    ("sample", whole_number("--sample", &sample, 0, kMaxSample), "show N records, 0 to 1000000, sampled evenly across pack entries (default 0: all)")
+    ("seed", whole_number("--seed", &seed, 0, UINT64_MAX), "seed of the sample, 0 to 2^64-1 (default 0)")
     ("layout", po::value(&layout_name), "inline (default) or columns: original | counterfactual")
     ("color", po::value(&color), "auto (default: on a terminal unless NO_COLOR is set), always, never")
-    ("width", po::value(&width), "line width (default: the terminal's, $COLUMNS, else 100)")
+    ("width", whole_number("--width", &width, 20, 1000), "line width, 20 to 1000 (default: $COLUMNS, else the terminal's, else 100)")
     ("no-rules", po::bool_switch(&no_rules), "do not list the edits and their rules under each record");
   // clang-format on
   po::positional_options_description pos;

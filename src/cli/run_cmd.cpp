@@ -93,8 +93,6 @@ Result<balance::PlanOptions> plan_options(const BalanceArgs& b) {
   auto basis = balance::parse_basis(b.basis);
   if (!basis) return make_error(ErrorKind::usage, "", "--basis must be mentions or records");
   po.basis = *basis;
-  if (!(b.tolerance > 0 && b.tolerance < 1))
-    return make_error(ErrorKind::usage, "", "--tolerance must be between 0 and 1");
   po.tolerance = b.tolerance / 2;
   po.allow_drop = b.allow_drop;
   po.allow_add = !b.no_add;
@@ -107,7 +105,7 @@ void add_balance_options(po::options_description& opts, BalanceArgs& b) {
   opts.add_options()
     ("target", po::value(&b.target), "balance: the mix to reach, e.g. female=1,male=1")
     ("basis", po::value(&b.basis), "balance: count mentions (default) or records")
-    ("tolerance", po::value(&b.tolerance), "balance: allowed distance of each share from the target (default 0.02)")
+    ("tolerance", real_number("--tolerance", &b.tolerance, {0, 1, true, true}), "balance: allowed distance of each share from the target, above 0 and below 1 (default 0.02)")
     ("allow-drop", po::bool_switch(&b.allow_drop), "balance: the plan may leave records out")
     ("no-add", po::bool_switch(&b.no_add), "balance: the plan may not add counterfactual copies")
     ("no-flip", po::bool_switch(&b.no_flip), "balance: the plan may not replace records by their counterfactual");
@@ -175,6 +173,9 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
   BalanceArgs b;
   pipeline::RunOptions& ro = a.ro;
   std::string mode = "augment", compress = "auto", manifest_path;
+  io::SinkOptions& so = ro.output_options;
+  const io::IntRange zl = io::zstd_levels(), zw = io::zstd_worker_counts(), gl = io::kGzipLevels;
+  auto range = [](io::IntRange r) { return std::to_string(r.lo) + " to " + std::to_string(r.hi); };
   add_corpus_options(opts, a);
   // clang-format off
   opts.add_options()
@@ -182,12 +183,12 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
     ("manifest", po::value(&manifest_path), "write the run manifest (JSON) here")
     ("edits", po::value(&ro.edits_path), "write the audit log (JSONL, one line per rewritten record) here")
     ("mode", po::value(&mode), "augment (add a counterfactual copy after each record with mentions; default), substitute (replace with probability --rate), balance (reach --target with the fewest changes, or apply --plan), passthrough (copy and validate only)")
-    ("rate", po::value(&ro.rate), "substitute: probability that a record with mentions is replaced (default 0.5)")
+    ("rate", real_number("--rate", &ro.rate, {0, 1}), "substitute: probability that a record with mentions is replaced, 0 to 1 (default 0.5)")
     ("plan", po::value(&b.plan_path), "balance: apply this plan (from 'evenhand plan') instead of making one")
     ("compress", po::value(&compress), "output compression: auto (by name), none, zstd, gzip")
-    ("zstd-level", po::value(&ro.output_options.zstd_level), "zstd level (default 3)")
-    ("zstd-threads", po::value(&ro.output_options.zstd_workers), "zstd worker threads (default 0: in the writer thread)")
-    ("gzip-level", po::value(&ro.output_options.gzip_level), "gzip level (default 6)")
+    ("zstd-level", whole_number("--zstd-level", &so.zstd_level, zl.lo, zl.hi), ("zstd level, " + range(zl) + " (default 3; 0: libzstd's default; below 1: faster)").c_str())
+    ("zstd-threads", whole_number("--zstd-threads", &so.zstd_workers, zw.lo, zw.hi), ("zstd worker threads, " + range(zw) + " (default 0: in the writer thread)").c_str())
+    ("gzip-level", whole_number("--gzip-level", &so.gzip_level, gl.lo, gl.hi), "gzip level, -1 to 9 (default 6; -1: zlib's default; 0: store)")
     ("provenance", po::bool_switch(&ro.provenance), "add a \"_evenhand\" member to each written record: source file, line, original or counterfactual");
   // clang-format on
   add_balance_options(opts, b);

@@ -10,6 +10,7 @@
 #include <cstring>
 #include <limits>
 
+#include "corpus/json_reason.h"
 #include "corpus/json_string.h"
 
 namespace evenhand::corpus {
@@ -221,6 +222,14 @@ Status FieldSelector::select(std::string_view record, std::vector<FieldMatch>& o
   if (!s.ok()) {
     out.clear();
     stats = SelectStats{};
+    // simdjson's message can mislead (trailing text, NaN): say what is wrong when we can.
+    if (s.error().reason.rfind("invalid JSON", 0) == 0) {
+      if (auto why = explain_invalid_json(record)) {
+        Error e = std::move(s).error();
+        e.reason = std::move(*why);
+        return e;
+      }
+    }
   }
   return s;
 }

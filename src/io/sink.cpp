@@ -60,6 +60,34 @@ std::string write_failure(int err) {
 
 }  // namespace
 
+IntRange zstd_levels() {
+  return {ZSTD_minCLevel(), ZSTD_maxCLevel()};
+}
+
+IntRange zstd_worker_counts() {
+  ZSTD_bounds b = ZSTD_cParam_getBounds(ZSTD_c_nbWorkers);
+  return ZSTD_isError(b.error) ? IntRange{0, 0} : IntRange{b.lowerBound, b.upperBound};
+}
+
+namespace {
+
+// Why `o` cannot be used, or an empty string.
+std::string bad_options(const SinkOptions& o) {
+  auto range = [](IntRange r) {
+    return " (" + std::to_string(r.lo) + " to " + std::to_string(r.hi) + ")";
+  };
+  if (!zstd_levels().contains(o.zstd_level))
+    return "zstd level " + std::to_string(o.zstd_level) + " out of range" + range(zstd_levels());
+  if (!zstd_worker_counts().contains(o.zstd_workers))
+    return "zstd worker count " + std::to_string(o.zstd_workers) + " out of range" +
+           range(zstd_worker_counts());
+  if (!kGzipLevels.contains(o.gzip_level))
+    return "gzip level " + std::to_string(o.gzip_level) + " out of range" + range(kGzipLevels);
+  return {};
+}
+
+}  // namespace
+
 Compression compression_for_name(const std::string& path) {
   if (ends_with(path, ".zst") || ends_with(path, ".zstd")) return Compression::zstd;
   if (ends_with(path, ".gz")) return Compression::gzip;
@@ -161,6 +189,8 @@ Result<std::unique_ptr<Sink>> Sink::create(const std::string& path, const SinkOp
   im.out.resize(kBufferSize);
 
   if (path.empty()) return im.error("empty output path");
+  if (std::string why = bad_options(options); !why.empty())
+    return make_error(ErrorKind::usage, path, std::move(why));
   if (path == "-") {
     im.target = Impl::Target::stdout_fd;
     im.fd = STDOUT_FILENO;

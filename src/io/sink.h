@@ -23,6 +23,17 @@ struct SinkOptions {
   int gzip_level = 6;
 };
 
+// The values SinkOptions accepts (Sink::create refuses others with kind usage): libzstd's
+// levels (ZSTD_minCLevel()..ZSTD_maxCLevel(); 0 is its default) and worker counts
+// (ZSTD_c_nbWorkers bounds), zlib's levels (-1 is its default, 0 stores, 9 is smallest).
+struct IntRange {
+  int lo, hi;
+  bool contains(int v) const { return v >= lo && v <= hi; }
+};
+IntRange zstd_levels();
+IntRange zstd_worker_counts();
+inline constexpr IntRange kGzipLevels{-1, 9};
+
 // Not copyable; not thread-safe.
 class OutputSet;
 
@@ -33,7 +44,8 @@ class Sink {
   Sink& operator=(const Sink&) = delete;
 
   // Creates the temporary file in the target's directory. Errors (kind output) when the
-  // directory does not exist or is not writable.
+  // directory does not exist or is not writable; (kind usage, before any file is made) for a
+  // level or worker count outside the ranges above.
   static Result<std::unique_ptr<Sink>> create(const std::string& path, const SinkOptions& options);
 
   // Appends bytes (compressing as configured). Errors (kind output) on write failure, e.g. a

@@ -43,6 +43,10 @@ struct Progress {
   double seconds = 0;
 };
 
+// Limits run() checks (kind usage): worker threads and the per-record size limit.
+inline constexpr unsigned kMaxThreads = 256;
+inline constexpr size_t kMaxRecordBytesLimit = size_t(1) << 31;
+
 struct RunOptions {
   std::vector<std::string> inputs;              // "-" is stdin
   std::string output;                           // "-" is stdout
@@ -56,10 +60,10 @@ struct RunOptions {
   uint64_t seed = 0;
   double rate = 0.5;       // substitute mode
   std::string id_pointer;  // substitute: record identity from this value; empty: raw bytes
-  unsigned threads = 0;    // worker threads; 0: the machine's cores
+  unsigned threads = 0;    // worker threads, at most kMaxThreads; 0: the machine's cores
   OnBadRecord on_bad = OnBadRecord::fail;
   OnFlagged on_flagged = OnFlagged::original;
-  size_t max_record_bytes = 16u << 20;
+  size_t max_record_bytes = 16u << 20;  // 1..kMaxRecordBytesLimit
   io::SinkOptions output_options;
   bool provenance = false;              // add the "_evenhand" member to every written JSONL record
   const balance::Plan* plan = nullptr;  // balance mode: the plan to apply (not owned)

@@ -158,8 +158,12 @@ Status Runner::prepare() {
   if (opt_.mode == Mode::substitute && !(opt_.rate >= 0 && opt_.rate <= 1)) {
     return make_error(ErrorKind::usage, "", "--rate must be between 0 and 1");
   }
-  if (opt_.max_record_bytes == 0 || opt_.max_record_bytes > (1ull << 31)) {
+  if (opt_.max_record_bytes == 0 || opt_.max_record_bytes > kMaxRecordBytesLimit) {
     return make_error(ErrorKind::usage, "", "--max-record-bytes must be between 1 and 2 GiB");
+  }
+  if (opt_.threads > kMaxThreads) {
+    return make_error(ErrorKind::usage, "",
+                      "--threads must be at most " + std::to_string(kMaxThreads));
   }
   int stdin_count = 0;
   for (const auto& in : opt_.inputs) stdin_count += in == "-";

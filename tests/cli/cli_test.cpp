@@ -189,7 +189,7 @@ TEST_CASE("stdin and stdout work as -, and quarantine keeps raw lines") {
   REQUIRE(r.code == 0);
   REQUIRE(r.out == "{\"text\":\"a\"}\n{\"text\":\"b\"}\n");
   REQUIRE(read_file(d.file("q.txt")) == "not json\n");
-  REQUIRE(r.err.find("rejected: <stdin>:2: invalid JSON") != std::string::npos);
+  REQUIRE(r.err.find("evenhand: <stdin>:2: invalid JSON") != std::string::npos);
 }
 
 TEST_CASE("the manifest carries the fixed keys and the record invariant") {
