@@ -5,6 +5,7 @@
 
 #include "cli/cli.h"
 #include "cli/common.h"
+#include "cli/pack_load.h"
 #include "cli/review_args.h"
 #include "io/source.h"
 #include "review/associations.h"
@@ -54,22 +55,20 @@ int associations_command(const std::vector<std::string>& args) {
   review::CorpusLayout layout;
   rc = corpus_layout("associations", nullptr, format, paragraphs, "", layout);
   if (rc >= 0) return rc;
-  std::vector<pack::Diagnostic> diags;
-  auto pk = pack::load_pack(pack_name, diags);
-  if (!pk.ok()) return report(pk.error());
-  std::shared_ptr<const pack::CompiledPack> pack = *pk;
+  std::vector<Error> problems;
+  auto pk = load_full_pack(pack_name, problems);
+  if (!pk.ok()) return report_pack_problems(problems, pk.error());
+  std::shared_ptr<const pack::CompiledPack> pack = pk->pack;
 
-  std::string list_text, source;
+  std::optional<review::TargetList> targets = std::move(pk->targets);
   if (targets_path.empty()) {
-    const std::string* f = pack->file("targets.data");
-    if (!f) {
-      print_error("associations: pack '" + pack->name() +
-                  "' ships no targets.data; give --targets FILE");
+    if (!targets) {
+      print_error("associations: pack '" + pack->name() + "' ships no " + kTargetsFile +
+                  "; give --targets FILE");
       return kUsage;
     }
-    list_text = *f;
-    source = pack->name() + ":targets.data";
   } else {
+    std::string list_text;
     auto src = io::Source::open(targets_path);
     if (!src.ok()) return report(src.error());
     char buf[65536];
@@ -79,10 +78,10 @@ int associations_command(const std::vector<std::string>& args) {
       if (*n == 0) break;
       list_text.append(buf, *n);
     }
-    source = targets_path;
+    auto parsed = review::parse_targets(list_text, targets_path, pack.get());
+    if (!parsed.ok()) return report(parsed.error());
+    targets = std::move(*parsed);
   }
-  auto targets = review::parse_targets(list_text, source);
-  if (!targets.ok()) return report(targets.error());
 
   review::AssociationReport rep;
   rep.pack_name = pack->name();

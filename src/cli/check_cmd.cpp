@@ -1,8 +1,10 @@
-// `evenhand check PACK` and `evenhand packs`: validate a rule pack, list built-in packs.
+// `evenhand check PACK` and `evenhand packs`: validate a rule pack (every loader `run` runs,
+// through load_full_pack), list built-in packs.
 #include <iostream>
 
 #include "cli/cli.h"
 #include "cli/common.h"
+#include "cli/pack_load.h"
 #include "pack/pack.h"
 
 namespace evenhand::cli {
@@ -21,17 +23,16 @@ int check_command(const std::vector<std::string>& args) {
     print_error("check: name a pack (see 'evenhand check --help')");
     return kUsage;
   }
-  std::vector<pack::Diagnostic> diags;
-  auto loaded = pack::load_pack(pack_name, diags);
-  for (const auto& d : diags)
-    std::cout << pack_name << "/" << d.where.str() << ": " << d.message << "\n";
+  std::vector<Error> problems;
+  auto loaded = load_full_pack(pack_name, problems);
   if (!loaded.ok()) {
-    if (diags.empty()) return report(loaded.error());
-    std::cerr << "evenhand: " << pack_name << ": " << diags.size() << " problem"
-              << (diags.size() == 1 ? "" : "s") << "\n";
+    if (loaded.error().kind != ErrorKind::pack) return report(loaded.error());
+    for (const auto& e : problems) std::cout << e.message() << "\n";
+    std::cerr << "evenhand: " << pack_name << ": " << problems.size() << " problem"
+              << (problems.size() == 1 ? "" : "s") << "\n";
     return kPack;
   }
-  const auto& p = **loaded;
+  const auto& p = *loaded->pack;
   std::cout << p.name() << " " << p.version() << ": axis " << p.axis() << ", groups";
   for (const auto& g : p.groups()) std::cout << " " << g;
   std::cout << "; " << p.sets().size() << " sets, " << p.names().size() << " name pairs, "
@@ -47,10 +48,10 @@ int packs_command(const std::vector<std::string>& args) {
   int rc = parse_args("packs", "", opts, args, vm);
   if (rc >= 0) return rc;
   for (const auto& name : pack::builtin_pack_names()) {
-    std::vector<pack::Diagnostic> diags;
-    auto loaded = pack::load_pack(name, diags);
+    std::vector<Error> problems;
+    auto loaded = load_full_pack(name, problems);
     if (loaded.ok()) {
-      const auto& p = **loaded;
+      const auto& p = *loaded->pack;
       std::cout << name << "\t" << p.version() << "\t" << p.language() << "\t" << p.axis() << ":";
       for (size_t i = 0; i < p.groups().size(); ++i) std::cout << (i ? "," : "") << p.groups()[i];
       std::cout << "\n";

@@ -6,6 +6,7 @@
 #include <limits>
 
 #include "cli/cli.h"
+#include "cli/pack_load.h"
 
 namespace evenhand::cli {
 
@@ -136,13 +137,10 @@ int load_engine(const std::string& cmd, CorpusArgs& a, bool pack_optional) {
     a.engine = rewrite::make_identity_engine();
     return -1;
   }
-  std::vector<pack::Diagnostic> diags;
-  auto loaded = pack::load_pack(a.pack_name, diags);
-  if (!loaded.ok()) {
-    for (const auto& d : diags) print_error(a.pack_name + ": " + d.where.str() + ": " + d.message);
-    return report(loaded.error());
-  }
-  a.pack = *loaded;
+  std::vector<Error> problems;
+  auto loaded = load_full_pack(a.pack_name, problems);
+  if (!loaded.ok()) return report_pack_problems(problems, loaded.error());
+  a.pack = loaded->pack;
   if (a.ro.mode == pipeline::Mode::passthrough) {
     a.engine = rewrite::make_identity_engine();
     return -1;
@@ -169,7 +167,7 @@ int load_engine(const std::string& cmd, CorpusArgs& a, bool pack_optional) {
     }
     eo.toward = *g;
   }
-  auto made = rewrite::make_engine(a.pack, eo);
+  auto made = rewrite::make_engine(a.pack, std::move(loaded->engine_data), eo);
   if (!made.ok()) return report(made.error());
   a.engine = std::move(*made);
   return -1;

@@ -38,7 +38,8 @@ void add_corpus_options(po::options_description& opts, CorpusArgs& a);
 // Checks the parsed options and fills a.ro. Returns -1 to go on, else the exit code.
 int finish_corpus_args(const std::string& command, CorpusArgs& a);
 
-// Loads the pack (required unless `pack_optional`) and makes the engine for a.ro.mode.
+// Loads the pack (required unless `pack_optional`) with load_full_pack (every problem of it
+// printed, one a line) and makes the engine for a.ro.mode.
 // Returns -1 to go on, else the exit code (after printing why).
 int load_engine(const std::string& command, CorpusArgs& a, bool pack_optional);
 

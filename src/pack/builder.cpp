@@ -188,8 +188,7 @@ Result<std::shared_ptr<const CompiledPack>> PackBuilder::build(
   });
   diagnostics.insert(diagnostics.end(), diags_.begin(), diags_.end());
   if (!diags_.empty()) {
-    const Diagnostic& first = diags_.front();
-    return make_error(ErrorKind::pack, label_, first.where.str() + ": " + first.message);
+    return diagnostic_error(label_, diags_.front());
   }
 
   std::shared_ptr<CompiledPack> pack = compile();
@@ -764,6 +763,7 @@ void PackBuilder::check_groups_used() {
 
 std::shared_ptr<CompiledPack> PackBuilder::compile() const {
   std::shared_ptr<CompiledPack> pack(new CompiledPack());
+  pack->label_ = label_;
   pack->name_ = header_.at("pack").value;
   pack->version_ = header_.at("version").value;
   pack->language_ = header_.at("language").value;

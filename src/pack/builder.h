@@ -20,9 +20,8 @@ class PackBuilder {
   PackBuilder& operator=(const PackBuilder&) = delete;
 
   // Reads, checks and compiles `files` (file name -> bytes; names ending in ".txt" are
-  // parsed, the others kept as data files). Returns the compiled pack, or an Error of kind pack
-  // naming the first problem as "FILE:LINE: message" (Error::file = the label) when `diagnostics`
-  // received any.
+  // parsed, the others kept as data files). Returns the compiled pack, or, when `diagnostics`
+  // received any, the first of them as diagnostic_error(label, first).
   Result<std::shared_ptr<const CompiledPack>> build(const std::map<std::string, std::string>& files,
                                                     std::vector<Diagnostic>& diagnostics);
 

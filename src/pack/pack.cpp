@@ -29,6 +29,18 @@ std::optional<Tag> parse_tag(std::string_view s) {
   return std::nullopt;
 }
 
+std::string pack_file_path(std::string_view label, std::string_view file) {
+  std::string path(label);
+  if (!path.empty() && path.back() != '/') path += '/';
+  return path.append(file);
+}
+
+Error diagnostic_error(std::string_view label, const Diagnostic& d) {
+  Error e = make_error(ErrorKind::pack, pack_file_path(label, d.where.file), d.message);
+  if (d.where.line) e.line = d.where.line;
+  return e;
+}
+
 std::optional<uint16_t> CompiledPack::group_index(std::string_view name) const {
   for (size_t i = 0; i < groups_.size(); ++i)
     if (groups_[i] == name) return static_cast<uint16_t>(i);

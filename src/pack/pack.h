@@ -33,6 +33,10 @@ struct Diagnostic {
   std::string code;  // stable kind of problem, e.g. "form-ambiguous" (rules/README.md lists them)
 };
 
+// A diagnostic of the pack loaded from `label` as an Error of kind pack that names the file by
+// pack_file_path and the line: its message() is "LABEL/words.txt:12: message".
+Error diagnostic_error(std::string_view label, const Diagnostic& d);
+
 // Slot or part-of-speech tags that choose between several counterparts of one form.
 // The engine knows how to decide each of these from context.
 enum class Tag : uint8_t { none = 0, subj, obj, det, poss, noun, adj, verb };
@@ -71,12 +75,22 @@ struct LexEntry {
   bool is_name = false;
 };
 
+// How messages name file `file` of the pack loaded from `label` (a folder path as given, or a
+// built-in pack's name): "LABEL/FILE" ("/tmp/mypack/possessive.model",
+// "en-gender/verbs.data"), with no second '/' when the label ends in one.
+std::string pack_file_path(std::string_view label, std::string_view file);
+
 class CompiledPack {
  public:
   CompiledPack(const CompiledPack&) = delete;
   CompiledPack& operator=(const CompiledPack&) = delete;
 
   const std::string& name() const { return name_; }
+  // Where the pack was loaded from, as the user named it: the folder path as given, or the
+  // built-in pack's name ("en-gender"). Messages about its files start with it.
+  const std::string& label() const { return label_; }
+  // The name messages give the pack's file `file`: pack_file_path(label(), file).
+  std::string file_path(std::string_view file) const { return pack_file_path(label_, file); }
   const std::string& version() const { return version_; }
   const std::string& language() const { return language_; }
   const std::string& axis() const { return axis_; }
@@ -113,7 +127,7 @@ class CompiledPack {
  private:
   friend class PackBuilder;
   CompiledPack() = default;
-  std::string name_, version_, language_, axis_, sha256_;
+  std::string label_, name_, version_, language_, axis_, sha256_;
   std::vector<std::string> groups_;
   std::vector<WordSet> sets_;
   std::vector<NamePair> names_;

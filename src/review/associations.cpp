@@ -16,7 +16,36 @@
 
 namespace evenhand::review {
 
-Result<TargetList> parse_targets(std::string_view text, const std::string& source) {
+namespace {
+
+const char* const kClitics[] = {"'s", "'d", "'ll", "'re", "'ve", "'m"};
+
+// The word without a trailing clitic, or empty when it has none.
+std::string_view strip_clitic(std::string_view folded) {
+  for (const char* c : kClitics) {
+    std::string_view cv(c);
+    if (folded.size() > cv.size() && folded.substr(folded.size() - cv.size()) == cv)
+      return folded.substr(0, folded.size() - cv.size());
+  }
+  return {};
+}
+
+// The pack entry of one word that rewrites `folded` (or its stem before a clitic, as the
+// counter matches group words), or null.
+const pack::LexEntry* rewriting_entry(const pack::CompiledPack& pack, std::string_view folded) {
+  for (std::string_view w : {folded, strip_clitic(folded)}) {
+    if (w.empty()) continue;
+    if (const auto* entries = pack.lookup(w))
+      for (const auto& e : *entries)
+        if (e.words.size() == 1) return &e;
+  }
+  return nullptr;
+}
+
+}  // namespace
+
+Result<TargetList> parse_targets(std::string_view text, const std::string& source,
+                                 const pack::CompiledPack* pack) {
   TargetList out;
   out.source = source;
   std::set<std::string> seen;
@@ -40,10 +69,20 @@ Result<TargetList> parse_targets(std::string_view text, const std::string& sourc
     }
     if (words.empty()) continue;
     for (const auto& w : words) {
+      std::string why;
       if (!seen.insert(w).second) {
-        Error e = make_error(ErrorKind::input, source, "target word '" + w + "' is listed twice");
-        e.line = line_no;
-        return e;
+        why = "target word '" + w + "' is listed twice";
+      } else if (const pack::LexEntry* e = pack ? rewriting_entry(*pack, w) : nullptr) {
+        const pack::SourceRef& at =
+            e->is_name ? pack->names()[e->set].where : pack->sets()[e->set].where;
+        why = "target word '" + w + "' is a " + (e->is_name ? "name" : "form") +
+              " the pack rewrites (" + pack->file_path(at.str()) +
+              "), so it would never count as a target";
+      }
+      if (!why.empty()) {
+        Error err = make_error(ErrorKind::input, source, std::move(why));
+        err.line = line_no;
+        return err;
       }
     }
     out.labels.push_back(words.front());
@@ -55,22 +94,6 @@ Result<TargetList> parse_targets(std::string_view text, const std::string& sourc
 
 // ---------------------------------------------------------------------------------------
 // Counting
-
-namespace {
-
-const char* const kClitics[] = {"'s", "'d", "'ll", "'re", "'ve", "'m"};
-
-// The word without a trailing clitic, or empty when it has none.
-std::string_view strip_clitic(std::string_view folded) {
-  for (const char* c : kClitics) {
-    std::string_view cv(c);
-    if (folded.size() > cv.size() && folded.substr(folded.size() - cv.size()) == cv)
-      return folded.substr(0, folded.size() - cv.size());
-  }
-  return {};
-}
-
-}  // namespace
 
 struct CooccurrenceCounter::Impl {
   std::shared_ptr<const pack::CompiledPack> pack;

@@ -26,9 +26,12 @@ struct TargetList {
   std::vector<std::vector<std::string>> variants;  // folded, the label's own form first
 };
 
-// Parses a target list. Errors (kind input, naming `source` and the line) for a line with
-// a word holding spaces inside quotes or a word listed twice.
-Result<TargetList> parse_targets(std::string_view text, const std::string& source);
+// Parses a target list. Errors (kind input, naming `source` and the line) for a word listed
+// twice, an empty list, and, when `pack` is given, a word the pack rewrites: a one-word form
+// or name of it, also before a clitic ("mother's"), which the counter takes for a group word
+// and so would never count.
+Result<TargetList> parse_targets(std::string_view text, const std::string& source,
+                                 const pack::CompiledPack* pack = nullptr);
 
 struct AssociationOptions {
   size_t window = 10;           // words on either side of a group word that are its context

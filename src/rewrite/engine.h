@@ -102,7 +102,31 @@ class Engine {
 // An engine that finds no mentions and makes no edits (pass-through runs and tests).
 std::unique_ptr<Engine> make_identity_engine();
 
-// The pack-driven engine. Errors (kind usage) for bad options, e.g. a broken protect pattern.
+class PossessiveModel;
+class VerbTable;
+class NounPhraseAgreement;
+
+// The pack's data files the engine reads, parsed; each is null when the pack has no such file
+// (possessive.model, verbs.data, noun-phrase.data with the three files it needs).
+struct EngineData {
+  std::shared_ptr<const PossessiveModel> possessive;
+  std::shared_ptr<const VerbTable> verbs;
+  std::shared_ptr<const NounPhraseAgreement> noun_phrases;
+};
+
+// Runs every loader of the engine's data files on `pack`, each file named in errors by
+// CompiledPack::file_path ("/tmp/mypack/possessive.model:12: reason"). Every file is tried:
+// `problems` receives the first problem of each file that does not load. Returns the data, or
+// the first problem (kind pack) when there is any.
+Result<EngineData> load_engine_data(const std::shared_ptr<const pack::CompiledPack>& pack,
+                                    std::vector<Error>& problems);
+
+// The pack-driven engine over data loaded by load_engine_data. Errors (kind usage) for bad
+// options, e.g. a broken protect pattern.
+Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::CompiledPack> pack,
+                                            EngineData data, const EngineOptions& options);
+// The same, loading the data first: also an Error (kind pack) for the first data file that
+// does not load.
 Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::CompiledPack> pack,
                                             const EngineOptions& options);
 

@@ -648,33 +648,42 @@ void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResu
 
 }  // namespace
 
+Result<EngineData> load_engine_data(const std::shared_ptr<const pack::CompiledPack>& pack,
+                                    std::vector<Error>& problems) {
+  size_t first = problems.size();
+  EngineData data;
+  auto take = [&](auto loaded, auto& slot) {
+    if (loaded.ok())
+      slot = std::move(*loaded);
+    else
+      problems.push_back(std::move(loaded).error());
+  };
+  if (const std::string* text = pack->file(kPossessiveModelFile))
+    take(PossessiveModel::parse(*text, pack->file_path(kPossessiveModelFile)), data.possessive);
+  if (pack->file(kVerbsFile)) take(VerbTable::from_pack(*pack), data.verbs);
+  if (pack->file(kNounPhraseFile)) take(NounPhraseAgreement::from_pack(pack), data.noun_phrases);
+  if (problems.size() > first) return problems[first];
+  return data;
+}
+
 Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::CompiledPack> pack,
-                                            const EngineOptions& options) {
+                                            EngineData data, const EngineOptions& options) {
   auto ps = text::ProtectedSpans::create(options.protect_patterns);
   if (!ps.ok()) return std::move(ps).error();
   if (options.toward && *options.toward >= pack->groups().size()) {
     return make_error(ErrorKind::usage, "", "--toward names a group the pack does not have");
   }
-  std::shared_ptr<const PossessiveModel> model;
-  if (const std::string* text = pack->file(kPossessiveModelFile)) {
-    auto m = PossessiveModel::parse(*text, pack->name() + "/" + kPossessiveModelFile);
-    if (!m.ok()) return std::move(m).error();
-    model = std::move(*m);
-  }
-  std::shared_ptr<const VerbTable> verbs;
-  if (pack->file("verbs.data")) {
-    auto v = VerbTable::from_pack(*pack);
-    if (!v.ok()) return std::move(v).error();
-    verbs = std::move(*v);
-  }
-  std::shared_ptr<const NounPhraseAgreement> np;
-  if (pack->file(kNounPhraseFile)) {
-    auto n = NounPhraseAgreement::from_pack(pack);
-    if (!n.ok()) return std::move(n).error();
-    np = std::move(*n);
-  }
   return std::unique_ptr<Engine>(std::make_unique<LexiconEngine>(
-      std::move(pack), std::move(*ps), std::move(model), std::move(verbs), std::move(np), options));
+      std::move(pack), std::move(*ps), std::move(data.possessive), std::move(data.verbs),
+      std::move(data.noun_phrases), options));
+}
+
+Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::CompiledPack> pack,
+                                            const EngineOptions& options) {
+  std::vector<Error> problems;
+  auto data = load_engine_data(pack, problems);
+  if (!data.ok()) return std::move(data).error();
+  return make_engine(std::move(pack), std::move(*data), options);
 }
 
 }  // namespace evenhand::rewrite

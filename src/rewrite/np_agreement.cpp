@@ -38,8 +38,8 @@ std::vector<DataLine> data_lines(const std::string& text) {
 
 Error line_error(const pack::CompiledPack& p, const std::string& file, uint32_t line,
                  std::string reason) {
-  Error e = make_error(ErrorKind::pack, p.name() + "/" + file, std::move(reason));
-  e.line = line;
+  Error e = make_error(ErrorKind::pack, p.file_path(file), std::move(reason));
+  if (line) e.line = line;
   return e;
 }
 
@@ -83,8 +83,9 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
   auto need = [&](const char* name) -> const std::string* { return p.file(name); };
   for (const char* f : {kNounPhraseFile, kAdjectivesFile, kNounsFile, kStressedFile}) {
     if (!need(f))
-      return make_error(ErrorKind::pack, p.name(),
-                        std::string("noun-phrase agreement needs the data file ") + f);
+      return make_error(ErrorKind::pack, p.file_path(f),
+                        std::string("missing: noun-phrase agreement (switched on by ") +
+                            kNounPhraseFile + ") needs it");
   }
 
   // noun-phrase.data

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <charconv>
 #include <limits>
+#include <optional>
 #include <random>
 #include <utility>
 
@@ -610,6 +611,18 @@ Result<std::shared_ptr<const PossessiveModel>> PossessiveModel::parse(std::strin
     return true;
   };
 
+  // A count in the header promises that many lines after it; it can be no more than the lines
+  // left in the file, so a corrupt count is an error here, never a huge allocation.
+  const uint64_t total_lines =
+      std::count(text.begin(), text.end(), '\n') + (!text.empty() && text.back() != '\n');
+  auto count_error = [&](std::string_view what, int64_t n) -> std::optional<Error> {
+    if (static_cast<uint64_t>(n) <= total_lines - line_no) return std::nullopt;
+    return model_error(label, line_no,
+                       std::string(what) + " " + std::to_string(n) +
+                           " is more than the lines left in the file (" +
+                           std::to_string(total_lines - line_no) + ")");
+  };
+
   std::string_view line;
   if (!next_line(line) || line != kMagic) {
     return model_error(
@@ -645,6 +658,7 @@ Result<std::shared_ptr<const PossessiveModel>> PossessiveModel::parse(std::strin
         return model_error(label, line_no, section + " must be a non-negative integer");
       }
       if (have) return model_error(label, line_no, "a second '" + section + "' section");
+      if (auto e = count_error(section, n)) return *e;
       have = true;
       map.reserve(static_cast<size_t>(n));
       for (int64_t k = 0; k < n; ++k) {
@@ -674,6 +688,7 @@ Result<std::shared_ptr<const PossessiveModel>> PossessiveModel::parse(std::strin
         return model_error(label, line_no,
                            "'scale', 'classes' and 'words' must come before 'features'");
       }
+      if (auto e = count_error("features", n)) return *e;
       feature_total = n;
     } else {
       return model_error(label, line_no, "unknown header line '" + std::string(key) + "'");

@@ -145,7 +145,9 @@ class PossessiveModel {
 
   // Parses a model file's text. Returns an Error (kind pack, naming `file_label` and the
   // 1-based line) when the header, a word or weight line, a count or the end marker is wrong,
-  // or a word or feature is listed twice. The "possessed" section is optional.
+  // or a word or feature is listed twice. A count (words, possessed, features) above the
+  // number of lines left in the text is refused before anything is allocated for it. The
+  // "possessed" section is optional.
   static Result<std::shared_ptr<const PossessiveModel>> parse(std::string_view model_text,
                                                               std::string_view file_label = {});
 

@@ -150,7 +150,7 @@ Result<std::shared_ptr<const VerbTable>> VerbTable::parse(std::string_view text,
   bool have_format = false;
   auto fail = [&](std::string reason) {
     Error e = make_error(ErrorKind::pack, file, std::move(reason));
-    e.line = line_no;
+    if (line_no) e.line = line_no;  // 0: the file as a whole
     return e;
   };
   size_t pos = 0;
@@ -223,11 +223,9 @@ Result<std::shared_ptr<const VerbTable>> VerbTable::parse(std::string_view text,
 }
 
 Result<std::shared_ptr<const VerbTable>> VerbTable::from_pack(const pack::CompiledPack& pack) {
-  const std::string* text = pack.file("verbs.data");
-  if (text == nullptr) {
-    return make_error(ErrorKind::pack, pack.name(), "the pack has no verbs.data file");
-  }
-  return parse(*text, "verbs.data");
+  const std::string* text = pack.file(kVerbsFile);
+  if (text == nullptr) return make_error(ErrorKind::pack, pack.file_path(kVerbsFile), "missing");
+  return parse(*text, pack.file_path(kVerbsFile));
 }
 
 VerbTable::Answer VerbTable::pluralize(std::string_view token) const {

@@ -17,6 +17,9 @@
 
 namespace evenhand::rewrite {
 
+// The pack data file that switches verb agreement on.
+inline constexpr const char* kVerbsFile = "verbs.data";
+
 // The verb forms of one language, parsed from a verbs.data file. Immutable; not copyable.
 class VerbTable {
  public:
@@ -53,8 +56,8 @@ class VerbTable {
   // form, missing or wrong format line).
   static Result<std::shared_ptr<const VerbTable>> parse(std::string_view text,
                                                         std::string file = "verbs.data");
-  // Parses the pack's "verbs.data" file. Returns the table, or an Error of kind pack when the
-  // pack has no such file or it does not parse.
+  // Parses the pack's "verbs.data" file, named in errors by pack.file_path. Returns the table,
+  // or an Error of kind pack when the pack has no such file or it does not parse.
   static Result<std::shared_ptr<const VerbTable>> from_pack(const pack::CompiledPack& pack);
 
   // The verb for a plural subject, given `token`, the case-folded verb token that follows a

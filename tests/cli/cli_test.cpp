@@ -17,25 +17,11 @@ using evenhand::testing::write_file;
 
 namespace {
 
-std::string binary() {
-  return evenhand::testing::evenhand_binary();
-}
-
-struct Ran {
-  int code = -1;
-  std::string err;
-  std::string out;
-};
+using Ran = evenhand::testing::Ran;
 
 // Runs evenhand with `args` (already shell-quoted), capturing stderr and stdout.
 Ran run(const TempDir& d, const std::string& args, const std::string& stdin_file = "/dev/null") {
-  Ran r;
-  std::string cmd = binary() + " " + args + " <" + stdin_file + " >" + d.file("stdout") + " 2>" +
-                    d.file("stderr");
-  r.code = shell(cmd);
-  r.err = read_file(d.file("stderr"));
-  r.out = read_file(d.file("stdout"));
-  return r;
+  return evenhand::testing::run_evenhand(d, args, stdin_file);
 }
 
 std::string passthrough(const TempDir& d, const std::string& in, const std::string& extra = "") {

@@ -318,9 +318,23 @@ TEST_CASE("every problem is collected, in reading order, and the first names the
   CHECK(l.diags[2].where.str() == "b.txt:2");
   CHECK(l.diags[2].code == "set-columns");
   CHECK_FALSE(l.pack);
-  CHECK(l.error_file == "testpack");
-  CHECK(l.error_reason == format_diagnostic(l.diags[0]));
-  CHECK(l.error == "testpack: " + format_diagnostic(l.diags[0]));
+  // The Error is the first problem, its file named under the pack's label.
+  CHECK(l.error_file == "testpack/pack.txt");
+  CHECK(l.error_reason == l.diags[0].message);
+  CHECK(l.error == "testpack/" + format_diagnostic(l.diags[0]));
+}
+
+TEST_CASE("a pack's files are named under the label it was loaded from", "[pack][diagnostics]") {
+  CHECK(pack_file_path("/tmp/mypack", "verbs.data") == "/tmp/mypack/verbs.data");
+  CHECK(pack_file_path("/tmp/mypack/", "verbs.data") == "/tmp/mypack/verbs.data");
+  CHECK(pack_file_path("en-gender", "possessive.model") == "en-gender/possessive.model");
+  Loaded l = load({{"pack.txt", std::string(kHeader) + "[sets]\nwoman | man\n"}});
+  INFO(all(l));
+  REQUIRE(l.pack);
+  CHECK(l.pack->label() == "testpack");
+  CHECK(l.pack->file_path("targets.data") == "testpack/targets.data");
+  Diagnostic whole{{"pack.txt", 0}, "a reason", "x"};
+  CHECK(diagnostic_error("/p", whole).message() == "/p/pack.txt: a reason");
 }
 
 TEST_CASE("load_pack_files reports its Error with kind pack", "[pack][diagnostics]") {
@@ -328,7 +342,7 @@ TEST_CASE("load_pack_files reports its Error with kind pack", "[pack][diagnostic
   auto r = load_pack_files("x", {{"pack.txt", "pack x\n"}}, diags);
   REQUIRE_FALSE(r.ok());
   CHECK(r.error().kind == ErrorKind::pack);
-  CHECK(r.error().file == "x");
+  CHECK(r.error().file == "x/pack.txt");
   CHECK_FALSE(r.error().line.has_value());
   CHECK(diags.size() == 4);  // version, language, axis and groups are missing
 }

@@ -330,9 +330,11 @@ TEST_CASE("load_pack_dir reads the .txt files of a folder", "[pack][lexicon]") {
   auto dup = load_pack_dir(dir.string(), diags);
   REQUIRE_FALSE(dup.ok());
   CHECK(dup.error().kind == ErrorKind::pack);
-  CHECK(dup.error().file == dir.string());
-  // more.txt is read before words.txt, so the duplicate is the one in words.txt.
-  CHECK(dup.error().reason.rfind("words.txt:2: duplicate set", 0) == 0);
+  // more.txt is read before words.txt, so the duplicate is the one in words.txt; the file is
+  // named under the folder as given.
+  CHECK(dup.error().file == (dir / "words.txt").string());
+  CHECK(dup.error().line == 2u);
+  CHECK(dup.error().reason.rfind("duplicate set", 0) == 0);
   fs::remove_all(dir);
 
   auto missing = load_pack_dir((dir / "nope").string(), diags);

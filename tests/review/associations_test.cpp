@@ -150,6 +150,23 @@ TEST_CASE("target lists: variants, comments, duplicates refused with the line") 
   CHECK_FALSE(review::parse_targets("# nothing\n", "empty.txt").ok());
 }
 
+TEST_CASE("target lists: a word the pack rewrites is refused with the line") {
+  auto pk = en_pack();
+  // One-word forms and names, also before a clitic, are group words to the counter.
+  for (const char* word : {"Mother", "mother's", "emma"}) {
+    INFO(word);
+    auto bad =
+        review::parse_targets(std::string("nurse\nchef ") + word + "\n", "list.txt", pk.get());
+    REQUIRE_FALSE(bad.ok());
+    CHECK(bad.error().message().rfind("list.txt:2: target word '", 0) == 0);
+    CHECK(bad.error().reason.find("the pack rewrites (en-gender/") != std::string::npos);
+  }
+  // The first word of a multiword form ("flight attendant") is no form of its own; without a
+  // pack, no check.
+  CHECK(review::parse_targets("nurse\nflight\n", "list.txt", pk.get()).ok());
+  CHECK(review::parse_targets("nurse\nmother\n", "list.txt").ok());
+}
+
 TEST_CASE("the shipped target list holds no form or name of the pack") {
   auto pk = en_pack();
   const std::string* data = pk->file("targets.data");

@@ -16,18 +16,10 @@ using evenhand::testing::write_file;
 
 namespace {
 
-struct Ran {
-  int code = -1;
-  std::string out, err;
-};
+using Ran = evenhand::testing::Ran;
 
 Ran run(const TempDir& d, const std::string& args, const std::string& env = "") {
-  Ran r;
-  r.code = shell(env + " " + evenhand::testing::evenhand_binary() + " " + args + " >" +
-                 d.file("stdout") + " 2>" + d.file("stderr") + " </dev/null");
-  r.out = read_file(d.file("stdout"));
-  r.err = read_file(d.file("stderr"));
-  return r;
+  return evenhand::testing::run_evenhand(d, args, "/dev/null", env);
 }
 
 // The README's demo run into `d`: out.jsonl, m.json, edits.jsonl.

@@ -604,7 +604,18 @@ TEST_CASE("possessive: corrupt model files are errors", "[possessive]") {
       {replace("features 3", "possessed 1\nlamp 2\nfeatures 3"), 8, "a possessed line"},
       {replace("features 3", "possessed 2\nlamp\t2\nlamp\t3\nfeatures 3"), 9, "listed twice"},
       {replace("features 3", "possessed 0\npossessed 0\nfeatures 3"), 8, "a second 'possessed'"},
-      {good.substr(0, good.find("n1:anew")), 8, "file ends after 1 of 3 features"},
+      {good.substr(0, good.find("n1:anew")), 7,
+       "features 3 is more than the lines left in the file (1)"},
+      // A count above the lines left in the file is refused before anything is allocated for
+      // it (under AddressSanitizer a reserve of 999999999999 entries aborts the test).
+      {replace("words 1", "words 999999999999"), 5,
+       "words 999999999999 is more than the lines left in the file (6)"},
+      {replace("features 3", "possessed 999999999999\nfeatures 3"), 7,
+       "possessed 999999999999 is more than the lines left in the file (5)"},
+      {replace("features 3", "features 999999999999"), 7,
+       "features 999999999999 is more than the lines left in the file (4)"},
+      {replace("features 3", "features 5"), 7,
+       "features 5 is more than the lines left in the file (4)"},
   };
   for (const Case& c : cases) {
     INFO(c.text);

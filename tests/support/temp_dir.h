@@ -1,5 +1,5 @@
 // Test helper: a fresh temporary directory removed with everything in it at scope exit, and
-// small file utilities shared by the test executables.
+// small file and process utilities shared by the test executables.
 #pragma once
 
 #include <cstdlib>
@@ -60,6 +60,25 @@ inline int shell(const std::string& cmd) {
   int rc = std::system(cmd.c_str());
   if (rc == -1) return -1;
   return WIFEXITED(rc) ? WEXITSTATUS(rc) : -1;
+}
+
+// What one run of the binary did: its exit status and what it printed.
+struct Ran {
+  int code = -1;
+  std::string out, err;
+};
+
+// Runs the evenhand binary with `args` (already shell-quoted), stdin from `stdin_file`,
+// after the shell assignments `env` (e.g. "NO_COLOR=1"), capturing stdout and stderr through
+// files in `d`.
+inline Ran run_evenhand(const TempDir& d, const std::string& args,
+                        const std::string& stdin_file = "/dev/null", const std::string& env = "") {
+  Ran r;
+  r.code = shell(env + " " + evenhand_binary() + " " + args + " <" + stdin_file + " >" +
+                 d.file("stdout") + " 2>" + d.file("stderr"));
+  r.out = read_file(d.file("stdout"));
+  r.err = read_file(d.file("stderr"));
+  return r;
 }
 
 }  // namespace evenhand::testing
