@@ -1,6 +1,7 @@
 // `evenhand merge-manifests`: adds up the manifests of runs over the shards of one corpus
 // into the manifest of the whole. Counts are summed, file lists concatenated, entry hits
-// merged by rule; identity fields (schema, tool, pack, options, plan) must agree.
+// merged by rule; identity fields (schema, tool, pack, options, plan) must agree, and a run
+// given twice (same start time, inputs and outputs) is refused rather than counted twice.
 #include <simdjson.h>
 
 #include <algorithm>
@@ -232,6 +233,19 @@ Status merge_into(JVal& total, const JVal& m, const std::string& path) {
   return ok_status();
 }
 
+// What tells one run from another: its start time and the paths and hashes of the files it
+// read and wrote. Two manifests with the same identity are one run given twice.
+std::string run_identity(const JVal& m) {
+  JVal id;
+  id.kind = JVal::object;
+  for (const char* k : {"started_at", "inputs", "outputs"})
+    if (const JVal* v = m.find(k)) id.members.emplace_back(k, *v);
+  std::string text;
+  audit::JsonWriter w(text);
+  write(w, id);
+  return text;
+}
+
 }  // namespace
 
 int merge_manifests_command(const std::vector<std::string>& args) {
@@ -259,6 +273,7 @@ int merge_manifests_command(const std::vector<std::string>& args) {
   JVal total;
   JVal shards;
   shards.kind = JVal::array;
+  std::vector<std::string> identities;  // per argument read so far
   for (size_t n = 0; n < inputs.size(); ++n) {
     simdjson::dom::element doc;
     auto error = parser.load(inputs[n]).get(doc);
@@ -272,6 +287,14 @@ int merge_manifests_command(const std::vector<std::string>& args) {
     if (m.kind != JVal::object || !schema || schema->s != audit::kManifestSchema) {
       return report(make_error(ErrorKind::input, inputs[n],
                                std::string("not a manifest of schema ") + audit::kManifestSchema));
+    }
+    identities.push_back(run_identity(m));
+    for (size_t k = 0; k + 1 < identities.size(); ++k) {
+      if (identities[k] == identities.back()) {
+        print_error("merge-manifests: " + inputs[n] + " is the same run as " + inputs[k] +
+                    " (same start time, inputs and outputs); each run counts once");
+        return kUsage;
+      }
     }
     if (const JVal* cl = m.find("command_line")) shards.items.push_back(*cl);
     if (n == 0) {

@@ -1,6 +1,7 @@
 // `evenhand report`: writes one self-contained HTML page about a run from its manifest and,
 // optionally, its audit log (a sample of diffs, guarded and flagged records; read in two
-// streaming passes) and an association audit. The page appears under its final name only
+// streaming passes, the second checking every edit against the corpus as review does) and
+// an association audit. The page appears under its final name only
 // when complete.
 #include <fstream>
 #include <vector>
@@ -111,10 +112,19 @@ int report_command(const std::vector<std::string>& args) {
     if (!s.ok()) return report(s.error());
     s = add_read("report input: audit log", edits);
     if (!s.ok()) return report(s.error());
-    s = review::for_each_review_record(edits, [&](review::ReviewRecord& r) {
-      if (!r.edits.empty()) sampler.offer(r);
-      return ok_status();
-    });
+    // Every edited record is checked against the corpus, as review does, so a log that
+    // does not fit its corpus is refused in the same words; the sample keeps no corpus text
+    // (it is read again for the few records chosen).
+    auto edited = [](const review::ReviewRecord& r) { return !r.edits.empty(); };
+    s = review::for_each_attached(edits, layout, review::kAttachBatch, edited,
+                                  [&](std::vector<review::ReviewRecord>& batch) {
+                                    for (auto& r : batch) {
+                                      std::vector<review::FieldText>().swap(r.fields);
+                                      std::string().swap(r.raw);
+                                      sampler.offer(r);
+                                    }
+                                    return ok_status();
+                                  });
     if (!s.ok()) return report(s.error());
     chosen = sampler.take();
     std::vector<review::ReviewRecord*> wanted;

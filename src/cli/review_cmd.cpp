@@ -48,6 +48,9 @@ int corpus_layout(const std::string& command, const review::ManifestView* m,
   }
   layout.framing = para ? corpus::Framing::paragraphs : corpus::Framing::lines;
   layout.root = root;
+  // The run accepted records up to its own limit; the records its log names are read back
+  // under that limit.
+  if (m && m->max_record_bytes > 0) layout.max_record_bytes = m->max_record_bytes;
   return -1;
 }
 
@@ -130,37 +133,32 @@ int review_command(const std::vector<std::string>& args) {
 
   // Pass 2 prints the records (all matching ones a batch at a time, or the sample) with
   // their corpus text; memory is one batch or the sampler's candidates.
-  review::SourceAttacher attacher(layout);
-  std::vector<review::ReviewRecord> batch;
   uint64_t shown = 0;
-  auto flush = [&]() -> Status {
-    std::vector<review::ReviewRecord*> wanted;
-    for (auto& r : batch) wanted.push_back(&r);
-    Status a = attacher.attach(wanted);
-    if (!a.ok()) return a;
+  auto print = [&](std::vector<review::ReviewRecord>& batch) -> Status {
     std::string out;
-    for (const auto* r : wanted) {
-      out += review::render_terminal(*r, style);
+    for (const auto& r : batch) {
+      out += review::render_terminal(r, style);
       out += '\n';
     }
     shown += batch.size();
-    batch.clear();
     std::cout << out;
     if (!std::cout) return make_error(ErrorKind::output, "", "cannot write standard output");
     return ok_status();
   };
-  const size_t kBatch = 256;
-  s = review::for_each_review_record(edits, [&](review::ReviewRecord& r) -> Status {
-    if (!review::passes(r, filter)) return ok_status();
-    if (sample > 0) {
-      sampler.offer(r);
+  auto wanted = [&](const review::ReviewRecord& r) { return review::passes(r, filter); };
+  if (sample == 0) {
+    s = review::for_each_attached(edits, layout, review::kAttachBatch, wanted, print);
+  } else {
+    s = review::for_each_review_record(edits, [&](review::ReviewRecord& r) {
+      if (wanted(r)) sampler.offer(r);
       return ok_status();
-    }
-    batch.push_back(std::move(r));
-    return batch.size() < kBatch ? ok_status() : flush();
-  });
-  if (s.ok() && sample > 0) batch = sampler.take();
-  if (s.ok()) s = flush();
+    });
+    std::vector<review::ReviewRecord> chosen = sampler.take();
+    std::vector<review::ReviewRecord*> ptrs;
+    for (auto& r : chosen) ptrs.push_back(&r);
+    if (s.ok()) s = review::attach_sources(ptrs, layout);
+    if (s.ok()) s = print(chosen);
+  }
   if (!s.ok()) {
     if (s.error().kind == ErrorKind::output) return kOutput;
     return report(s.error());

@@ -175,6 +175,11 @@ struct FieldSelector::Impl {
   std::vector<uint32_t> active;  // stack of pattern lists, one slice per open level
   std::vector<char> hit;         // per pattern: matched something in this record
   std::string path;              // concrete pointer of the current value (when needed)
+  // Decoded names of the selected members of the open objects, one slice per object, to
+  // refuse a name that appears twice (which of the two values counts is up to the reader).
+  std::string seen_bytes;
+  std::vector<std::pair<uint32_t, uint32_t>> seen;  // (offset, size) in seen_bytes
+  std::vector<std::string_view> seen_sorted;
 
   // Per select() call.
   const char* base = nullptr;
@@ -190,6 +195,7 @@ struct FieldSelector::Impl {
   Status walk_object(od::object& o, size_t ab, size_t ae, uint32_t level, uint32_t depth);
   Status walk_array(od::array& a, size_t ab, size_t ae, uint32_t level, uint32_t depth);
   Status walk_string(std::string_view token, int64_t mi);
+  Status check_unique(size_t first_seen);
   uint32_t container_end(od::value& v, uint32_t begin);
   uint32_t raw_offset(const FieldMatch& m, uint32_t decoded) const;
 };
@@ -243,6 +249,8 @@ Status FieldSelector::Impl::run(std::string_view rec, std::vector<FieldMatch>& m
   text_arena.clear();
   active.clear();
   path.clear();
+  seen_bytes.clear();
+  seen.clear();
   hit.assign(toks.size(), 0);
   if (rec.size() > std::numeric_limits<uint32_t>::max() - simdjson::SIMDJSON_PADDING) {
     return input_error("record larger than 4 GiB");
@@ -432,6 +440,7 @@ Status FieldSelector::Impl::walk_string(std::string_view token, int64_t mi) {
 Status FieldSelector::Impl::walk_object(od::object& o, size_t ab, size_t ae, uint32_t level,
                                         uint32_t depth) {
   const char* const limit = base + record.size();
+  const size_t first_seen = seen.size();
   for (auto field_result : o) {
     od::field field;
     if (auto e = std::move(field_result).get(field)) return json_error(e);
@@ -455,12 +464,45 @@ Status FieldSelector::Impl::walk_object(od::object& o, size_t ab, size_t ae, uin
     }
     const size_t ce = active.size();
     const size_t path_size = path.size();
-    if (ce > cb) append_pointer_token(path, key);
+    if (ce > cb) {
+      append_pointer_token(path, key);
+      seen.emplace_back(static_cast<uint32_t>(seen_bytes.size()),
+                        static_cast<uint32_t>(key.size()));
+      seen_bytes.append(key);
+    }
     Status s = walk_value(field.value(), cb, ce, level + 1, depth);
     path.resize(path_size);
     active.resize(cb);
     if (!s.ok()) return s;
   }
+  return check_unique(first_seen);
+}
+
+Status FieldSelector::Impl::check_unique(size_t first_seen) {
+  const size_t n = seen.size() - first_seen;
+  if (n < 2) {
+    if (n == 1) seen_bytes.resize(seen[first_seen].first);
+    seen.resize(first_seen);
+    return ok_status();
+  }
+  // Few names (the usual case) are compared pairwise; many (a wildcard over a wide object)
+  // are sorted.
+  seen_sorted.clear();
+  for (size_t k = first_seen; k < seen.size(); ++k)
+    seen_sorted.emplace_back(seen_bytes.data() + seen[k].first, seen[k].second);
+  const std::string_view* dup = nullptr;
+  if (n <= 16) {
+    for (size_t a = 0; a < n && !dup; ++a)
+      for (size_t b = a + 1; b < n && !dup; ++b)
+        if (seen_sorted[a] == seen_sorted[b]) dup = &seen_sorted[a];
+  } else {
+    std::sort(seen_sorted.begin(), seen_sorted.end());
+    auto it = std::adjacent_find(seen_sorted.begin(), seen_sorted.end());
+    if (it != seen_sorted.end()) dup = &*it;
+  }
+  if (dup) return input_error(duplicate_key_reason(*dup, path));
+  seen_bytes.resize(seen[first_seen].first);
+  seen.resize(first_seen);
   return ok_status();
 }
 
@@ -540,6 +582,15 @@ void FieldSelector::splice(std::string_view record, std::span<const FieldMatch> 
     }
   }
   out.append(record.substr(cursor));
+}
+
+std::string duplicate_key_reason(std::string_view key, std::string_view object_pointer) {
+  std::string reason = "duplicate key \"";
+  append_json_escaped(key, reason);
+  if (object_pointer.empty()) return reason + "\" in the top-level object";
+  reason += "\" in the object at \"";
+  append_json_escaped(object_pointer, reason);
+  return reason + '"';
 }
 
 void append_with_member(std::string_view record, std::string_view key, std::string_view raw_value,

@@ -56,7 +56,9 @@ class FieldSelector {
 
   // Parses `record` (one JSON text, no line terminator) and fills `out` with every value the
   // patterns match, in document order. Errors (kind input, reason only; the caller adds file
-  // and line) for malformed JSON, a value that is not an object, or invalid UTF-8.
+  // and line) for malformed JSON, a value that is not an object, invalid UTF-8, or a member
+  // name that a pattern selects appearing twice in one object ("duplicate key ...": readers
+  // differ on which value counts); duplicates no pattern reaches pass as they are.
   Status select(std::string_view record, std::vector<FieldMatch>& out, SelectStats& stats);
 
   // Appends to `out` the record with the edits applied: each edited string keeps its original
@@ -69,6 +71,10 @@ class FieldSelector {
   struct Impl;
   std::unique_ptr<Impl> impl_;
 };
+
+// The reason select() gives for member name `key` appearing twice in the object at
+// `object_pointer` ("" for the record itself); review refuses such a record in the same words.
+std::string duplicate_key_reason(std::string_view key, std::string_view object_pointer);
 
 // Appends `record` (a JSON object text) with one more member `"key": raw_value` inserted
 // before its closing brace. `raw_value` must be valid JSON.

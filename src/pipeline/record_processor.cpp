@@ -16,6 +16,7 @@ std::string rejection_code(const Error& e) {
   if (r.rfind("record is not a JSON object", 0) == 0) return "not_object";
   if (r.rfind("record of ", 0) == 0) return "record_too_large";
   if (r.rfind("invalid JSON", 0) == 0) return "invalid_json";
+  if (r.rfind("duplicate key", 0) == 0) return "duplicate_key";
   if (r.rfind("agreement could not be settled", 0) == 0) return "unsettled_agreement";
   return "invalid_record";
 }

@@ -55,7 +55,7 @@ class RecordProcessor {
 };
 
 // Short machine-readable code for a rejection message ("invalid_json", "not_object",
-// "invalid_utf8", "record_too_large").
+// "invalid_utf8", "record_too_large", "duplicate_key").
 std::string rejection_code(const Error& e);
 
 }  // namespace evenhand::pipeline

@@ -52,8 +52,11 @@ Status for_each_review_record(const std::string& path,
     cur.reset();
     return handed.ok();
   };
+  // An audit line can be many times its record's size (a short edit logs about a hundred
+  // bytes), so lines are not held to any record limit: one is buffered whole, as long as it
+  // is, up to the most the JSON parser takes.
   CorpusLayout lines;
-  lines.max_record_bytes = 64u << 20;
+  lines.max_record_bytes = simdjson::SIMDJSON_MAXSIZE_BYTES;
   auto read = for_each_record(path, lines, [&](const corpus::RawRecord& raw) -> Result<bool> {
     auto fail = [](const std::string& why) { return make_error(ErrorKind::input, "", why); };
     element doc;

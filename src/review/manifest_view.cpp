@@ -91,6 +91,7 @@ Result<ManifestView> read_manifest(const std::string& path) {
   m.format = str(opts, "format");
   bool para = false;
   if (!opts["paragraphs"].get_bool().get(para)) m.paragraphs = para;
+  m.max_record_bytes = num(opts, "max_record_bytes");
   simdjson::dom::array fl;
   if (!opts["fields"].get_array().get(fl))
     for (element a : fl) {

@@ -39,6 +39,7 @@ struct ManifestView {
   std::string pack_name, pack_version, pack_sha256, axis;
   std::string mode, format;
   bool paragraphs = false;
+  uint64_t max_record_bytes = 0;  // the run's --max-record-bytes; 0: not recorded
   std::vector<std::string> fields;
   std::vector<FileRow> inputs, outputs;
   std::vector<std::pair<std::string, uint64_t>> records;  // records.* integers, in file order

@@ -3,6 +3,7 @@
 #include <simdjson.h>
 
 #include <algorithm>
+#include <charconv>
 #include <filesystem>
 #include <map>
 
@@ -30,7 +31,8 @@ Result<std::string> for_each_record(
     Result<bool> more = true;
     if (*kind == corpus::RecordReader::Kind::oversized) {
       more = make_error(ErrorKind::input, "",
-                        "record of " + std::to_string(raw.size) + " bytes is over the limit");
+                        "record of " + std::to_string(raw.size) + " bytes is over the limit of " +
+                            std::to_string(layout.max_record_bytes) + " bytes");
     } else {
       more = fn(raw);
     }
@@ -76,6 +78,45 @@ Result<std::string> for_each_fields(
 
 namespace {
 
+// The string at the concrete pointer `pointer` of `doc` (as logged: "*" is a member name
+// here). A member name on the way that appears twice in its object is an Error in the run's
+// words: the run refuses such records, so a log that edits one does not fit the corpus.
+Result<std::string_view> string_at(simdjson::dom::element doc, const std::string& pointer) {
+  auto parsed = corpus::PointerPattern::parse(pointer);
+  auto missing = [&] {
+    return make_error(ErrorKind::input, "",
+                      "no string at " + pointer + " although the audit log edits it");
+  };
+  if (!parsed.ok()) return missing();
+  std::string at;  // pointer of `doc` so far
+  for (const auto& tok : parsed->tokens()) {
+    simdjson::dom::object obj;
+    simdjson::dom::array arr;
+    if (!doc.get_object().get(obj)) {
+      int found = 0;
+      for (auto member : obj) {
+        if (member.key != tok.key) continue;
+        if (++found > 1)
+          return make_error(ErrorKind::input, "", corpus::duplicate_key_reason(tok.key, at));
+        doc = member.value;
+      }
+      if (!found) return missing();
+    } else if (!doc.get_array().get(arr)) {
+      size_t index = 0;
+      auto [end, ec] = std::from_chars(tok.key.data(), tok.key.data() + tok.key.size(), index);
+      if (ec != std::errc() || end != tok.key.data() + tok.key.size() || tok.key.empty() ||
+          (tok.key.size() > 1 && tok.key[0] == '0') || arr.at(index).get(doc))
+        return missing();
+    } else {
+      return missing();
+    }
+    corpus::append_pointer_token(at, tok.key);
+  }
+  std::string_view sv;
+  if (doc.get_string().get(sv)) return missing();
+  return sv;
+}
+
 // Fills `r` from its corpus record `raw` and checks every edit against it.
 Status fill_record(ReviewRecord& r, const corpus::RawRecord& raw, const std::string& path,
                    const CorpusLayout& layout, simdjson::dom::parser& parser) {
@@ -96,12 +137,11 @@ Status fill_record(ReviewRecord& r, const corpus::RawRecord& raw, const std::str
       ft.text = r.raw;
     } else {
       simdjson::dom::element doc;
-      std::string_view sv;
       if (parser.parse(raw.bytes.data(), raw.bytes.size()).get(doc))
         return fail("not a JSON record (is the corpus plain text?)");
-      if (doc.at_pointer(p).get_string().get(sv))
-        return fail("no string at " + p + " although the audit log edits it");
-      ft.text.assign(sv);
+      auto sv = string_at(doc, p);
+      if (!sv.ok()) return fail(sv.error().reason);
+      ft.text.assign(*sv);
     }
     r.fields.push_back(std::move(ft));
   }
@@ -175,16 +215,21 @@ Status SourceAttacher::attach(std::vector<ReviewRecord*>& records) {
           break;
         }
         c.last = c.raw.line;
-        if (*kind == corpus::RecordReader::Kind::oversized) {
-          Error e =
-              make_error(ErrorKind::input, path,
-                         "record of " + std::to_string(c.raw.size) + " bytes is over the limit");
+        c.have = *kind == corpus::RecordReader::Kind::record;
+        // A record over the limit that the log does not name (one the run rejected) is
+        // passed over; the one it names is an error.
+        if (!c.have && c.raw.line == line) {
+          Error e = make_error(ErrorKind::input, path,
+                               "record of " + std::to_string(c.raw.size) +
+                                   " bytes is over the limit of " +
+                                   std::to_string(layout_.max_record_bytes) +
+                                   " bytes (the run's manifest tells its --max-record-bytes)");
           e.line = c.raw.line;
           c.reader.reset();
           c = Cursor{};
           return e;
         }
-        c.have = true;
+        if (!c.have && c.raw.line > line) break;
       }
       if (!c.have || c.raw.line != line) {
         Error e = make_error(ErrorKind::input, path,
@@ -200,6 +245,28 @@ Status SourceAttacher::attach(std::vector<ReviewRecord*>& records) {
     }
   }
   return ok_status();
+}
+
+Status for_each_attached(const std::string& log, const CorpusLayout& layout, size_t batch,
+                         const std::function<bool(const ReviewRecord&)>& want,
+                         const std::function<Status(std::vector<ReviewRecord>&)>& fn) {
+  SourceAttacher attacher(layout);
+  std::vector<ReviewRecord> records;
+  auto flush = [&]() -> Status {
+    if (records.empty()) return ok_status();
+    std::vector<ReviewRecord*> wanted;
+    for (auto& r : records) wanted.push_back(&r);
+    EVENHAND_TRY(attacher.attach(wanted));
+    Status s = fn(records);
+    records.clear();
+    return s;
+  };
+  EVENHAND_TRY(for_each_review_record(log, [&](ReviewRecord& r) -> Status {
+    if (!want(r)) return ok_status();
+    records.push_back(std::move(r));
+    return records.size() < batch ? ok_status() : flush();
+  }));
+  return flush();
 }
 
 Status attach_sources(std::vector<ReviewRecord*>& records, const CorpusLayout& layout) {

@@ -64,6 +64,17 @@ class SourceAttacher {
   std::unique_ptr<State> state_;
 };
 
+// Records attached at once by review and report: bounds their memory.
+inline constexpr size_t kAttachBatch = 256;
+
+// Streams the audit log at `log` and hands the records `want` keeps to `fn` in log order,
+// `batch` at a time, each with its corpus text attached and checked, so a log that does not
+// fit its corpus fails at its first misfit whoever reads it. `fn` may move from the records.
+// Errors from the log, the corpus or `fn` stop it and are returned.
+Status for_each_attached(const std::string& log, const CorpusLayout& layout, size_t batch,
+                         const std::function<bool(const ReviewRecord&)>& want,
+                         const std::function<Status(std::vector<ReviewRecord>&)>& fn);
+
 // One batch: SourceAttacher(layout).attach(records).
 Status attach_sources(std::vector<ReviewRecord*>& records, const CorpusLayout& layout);
 

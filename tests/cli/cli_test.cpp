@@ -99,6 +99,26 @@ TEST_CASE("a record over --max-record-bytes is rejected, and skip counts and dro
   REQUIRE(m.find("\"record_too_large\": 1") != std::string::npos);
 }
 
+TEST_CASE("merge-manifests refuses one run given twice") {
+  TempDir d;
+  std::string in = d.file("in.jsonl");
+  write_file(in, "{\"text\":\"short\"}\n");
+  REQUIRE(run(d, passthrough(d, in, "--manifest " + d.file("m.json"))).code == 0);
+  std::filesystem::copy_file(d.file("m.json"), d.file("copy.json"));
+  auto twice = run(d, "merge-manifests " + d.file("m.json") + " " + d.file("m.json") + " --out " +
+                          d.file("w.json"));
+  CHECK(twice.code == kUsage);
+  CHECK(twice.err == "evenhand: merge-manifests: " + d.file("m.json") + " is the same run as " +
+                         d.file("m.json") +
+                         " (same start time, inputs and outputs); each run counts once\n");
+  auto copy = run(d, "merge-manifests " + d.file("m.json") + " " + d.file("copy.json") + " --out " +
+                         d.file("w.json"));
+  CHECK(copy.code == kUsage);
+  CHECK(copy.err.find(d.file("copy.json") + " is the same run as " + d.file("m.json")) !=
+        std::string::npos);
+  CHECK_FALSE(std::filesystem::exists(d.file("w.json")));
+}
+
 TEST_CASE("truncated and corrupt compressed input name the byte offset") {
   TempDir d;
   std::string plain = d.file("p.jsonl");

@@ -671,3 +671,39 @@ TEST_CASE("property: random records select, splice and re-parse consistently",
   }
   CHECK(edited > 250);  // the edits were really exercised
 }
+
+TEST_CASE("a selected member name twice in one object is refused; others pass",
+          "[corpus][fields][errors]") {
+  // RFC 8259 section 4: names SHOULD be unique; with duplicates readers differ on the value.
+  FieldSelector sel(patterns({"/text", "/meta/body"}));
+  CHECK(select_error(sel, R"({"text":"She rode.","text":"Her bike."})") ==
+        R"(duplicate key "text" in the top-level object)");
+  CHECK(select_error(sel, R"({"meta":{"body":"a","body":"b"}})") ==
+        R"(duplicate key "body" in the object at "/meta")");
+  // An object on the way to a selected field counts too, and escapes are decoded first.
+  CHECK(select_error(sel, R"({"meta":{"x":1},"meta":{"body":"She"}})") ==
+        R"(duplicate key "meta" in the top-level object)");
+  CHECK(select_error(sel, R"({"te\u0078t":"a","text":"b"})") ==
+        R"(duplicate key "text" in the top-level object)");
+  // Duplicates no pattern reaches are left alone.
+  std::vector<FieldMatch> ms;
+  SelectStats stats;
+  REQUIRE(
+      sel.select(R"({"id":1,"id":2,"other":{"body":1,"body":2},"text":"She"})", ms, stats).ok());
+  REQUIRE(ms.size() == 1);
+  CHECK(ms[0].pointer == "/text");
+}
+
+TEST_CASE("a wildcard over a wide object finds a duplicate among many names",
+          "[corpus][fields][errors]") {
+  FieldSelector sel(patterns({"/*"}));
+  std::string rec = "{";
+  for (int i = 0; i < 200; ++i) rec += "\"k" + std::to_string(i) + "\":\"v\",";
+  std::string unique = rec + "\"last\":\"v\"}";
+  std::vector<FieldMatch> ms;
+  SelectStats stats;
+  REQUIRE(sel.select(unique, ms, stats).ok());
+  CHECK(ms.size() == 201);
+  CHECK(select_error(sel, rec + "\"k123\":\"w\"}") ==
+        R"(duplicate key "k123" in the top-level object)");
+}

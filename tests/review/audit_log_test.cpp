@@ -187,6 +187,36 @@ TEST_CASE("sources attached in batches: forward reading, going back, closing, er
         d.file("c.jsonl") + ":3: no record at this line although the audit log names it");
 }
 
+TEST_CASE("an audit line far longer than any record limit is read") {
+  // A short edit logs about a hundred bytes, so a record's line can be many times the
+  // record; here one line of 70 MiB (white space between members is valid JSON).
+  TempDir d;
+  write_file(d.file("c.jsonl"), kCorpus);
+  std::string line = log_for("c.jsonl");
+  line = line.substr(0, line.find('\n'));
+  line.insert(1, std::string(70u << 20, ' '));
+  write_file(d.file("log.jsonl"), line + "\n");
+  auto log = review::read_audit_log(d.file("log.jsonl"));
+  REQUIRE(log.ok());
+  REQUIRE(log->size() == 1);
+  CHECK((*log)[0].edits.size() == 2);
+}
+
+TEST_CASE("a logged field whose name appears twice in its object is refused as run does") {
+  TempDir d;
+  write_file(d.file("c.jsonl"), "{\"text\": \"She fixed her bike.\", \"text\": \"x\"}\n");
+  write_file(d.file("log.jsonl"), log_for("c.jsonl").substr(0, log_for("c.jsonl").find('\n') + 1));
+  auto log = review::read_audit_log(d.file("log.jsonl"));
+  REQUIRE(log.ok());
+  std::vector<review::ReviewRecord*> all{&(*log)[0]};
+  review::CorpusLayout layout;
+  layout.root = d.path().string();
+  Status s = review::attach_sources(all, layout);
+  REQUIRE_FALSE(s.ok());
+  CHECK(s.error().line == 1u);
+  CHECK(s.error().reason == "duplicate key \"text\" in the top-level object");
+}
+
 TEST_CASE("terminal drawing: brackets without colour, ANSI with it, two columns") {
   review::ReviewRecord r;
   r.input = "c.jsonl";

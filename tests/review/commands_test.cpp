@@ -158,6 +158,73 @@ TEST_CASE("review and report on a log longer than a batch and than the page's li
   CHECK(late.code == kInput);
   CHECK(late.err.find(d.file("big.jsonl") + ":602: the audit log does not match this corpus") !=
         std::string::npos);
+  // report checks every edited record too, not only its sample: same code, same line.
+  auto late_page = run(d, "report --manifest " + d.file("m.json") + " --edits " +
+                              d.file("edits.jsonl") + " --out " + d.file("r2.html"));
+  CHECK(late_page.code == kInput);
+  CHECK(late_page.err == late.err);
+  CHECK_FALSE(exists(d.file("r2.html")));
+}
+
+TEST_CASE("run refuses a duplicate member name and review and report accept its log") {
+  // Invented records. Line 1 names "text" twice; line 3 repeats a member no field reaches.
+  TempDir d;
+  write_file(d.file("in.jsonl"),
+             "{\"text\": \"She rode.\", \"text\": \"Her bike.\"}\n"
+             "{\"text\": \"He rode.\"}\n"
+             "{\"n\": 1, \"n\": 2, \"text\": \"She ran.\"}\n");
+  auto r = run(d, "run --pack en-gender --in " + d.file("in.jsonl") + " --field /text --out " +
+                      d.file("out.jsonl") + " --manifest " + d.file("m.json") + " --edits " +
+                      d.file("edits.jsonl") + " --rejects " + d.file("rejects.jsonl") +
+                      " --on-bad-record skip --quiet");
+  REQUIRE(r.code == 0);
+  CHECK(
+      read_file(d.file("rejects.jsonl"))
+          .find(
+              "\"line\":1,\"reason\":\"duplicate_key\",\"message\":\"duplicate key \\\"text\\\" in "
+              "the top-level object\"") != std::string::npos);
+  std::string log = read_file(d.file("edits.jsonl"));
+  CHECK(log.find("\"line\":1,") == std::string::npos);
+  CHECK(log.find("\"line\":3,") != std::string::npos);
+  auto rv = run(d, "review " + d.file("edits.jsonl") + " --manifest " + d.file("m.json"));
+  CHECK(rv.code == 0);
+  CHECK(rv.out.find("shown 2 of 2 matching records") != std::string::npos);
+  auto page = run(d, "report --manifest " + d.file("m.json") + " --edits " + d.file("edits.jsonl") +
+                         " --out " + d.file("r.html"));
+  CHECK(page.code == 0);
+  auto fail = run(d, "run --pack en-gender --in " + d.file("in.jsonl") + " --field /text --out " +
+                         d.file("out2.jsonl") + " --quiet");
+  CHECK(fail.code == kInput);
+  CHECK(fail.err ==
+        "evenhand: " + d.file("in.jsonl") + ":1: duplicate key \"text\" in the top-level object\n");
+}
+
+TEST_CASE("review and report read the corpus under the run's --max-record-bytes") {
+  // Invented: a record of 17 MB (over the 16M default) whose padding no field selects.
+  TempDir d;
+  std::string big = "{\"pad\": \"" + std::string(17u << 20, 'x') + "\", \"text\": \"She rode.\"}\n";
+  write_file(d.file("in.jsonl"), big + "{\"text\": \"She ran.\"}\n");
+  auto base = "run --pack en-gender --in " + d.file("in.jsonl") + " --field /text --quiet";
+  REQUIRE(run(d, base + " --max-record-bytes 32M --out " + d.file("a.jsonl") + " --manifest " +
+                     d.file("a.json") + " --edits " + d.file("a.edits.jsonl"))
+              .code == 0);
+  auto rv = run(d, "review " + d.file("a.edits.jsonl") + " --manifest " + d.file("a.json"));
+  CHECK(rv.code == 0);
+  CHECK(rv.out.find("shown 2 of 2 matching records") != std::string::npos);
+  CHECK(run(d, "report --manifest " + d.file("a.json") + " --edits " + d.file("a.edits.jsonl") +
+                   " --out " + d.file("a.html"))
+            .code == 0);
+  // Without the manifest the default applies, and the record the log names is too large.
+  auto no_m = run(d, "review " + d.file("a.edits.jsonl"));
+  CHECK(no_m.code == kInput);
+  CHECK(no_m.err.find(d.file("in.jsonl") + ":1: record of ") != std::string::npos);
+  // A run under the default limit rejected that record; review passes over it.
+  REQUIRE(run(d, base + " --on-bad-record skip --out " + d.file("b.jsonl") + " --edits " +
+                     d.file("b.edits.jsonl"))
+              .code == 0);
+  auto skipped = run(d, "review " + d.file("b.edits.jsonl"));
+  CHECK(skipped.code == 0);
+  CHECK(skipped.out.find("shown 1 of 1 matching records") != std::string::npos);
 }
 
 TEST_CASE("report: a self-contained page, written all or nothing") {
