@@ -530,11 +530,11 @@ void FieldSelector::splice(std::string_view record, std::span<const FieldMatch> 
   std::vector<MatchEdit> flat;
   for (const FieldEdits* fe : order)
     for (const StringEdit& ed : fe->edits) flat.push_back({fe->match, ed});
-  splice(record, matches, flat, out);
+  splice_flat(record, matches, flat, out);
 }
 
-void FieldSelector::splice(std::string_view record, std::span<const FieldMatch> matches,
-                           std::span<const MatchEdit> edits, std::string& out) const {
+void FieldSelector::splice_flat(std::string_view record, std::span<const FieldMatch> matches,
+                                std::span<const MatchEdit> edits, std::string& out) const {
   auto usable = [&](uint32_t match) {
     if (match >= matches.size()) return false;
     const FieldMatch& m = matches[match];

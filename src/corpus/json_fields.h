@@ -72,8 +72,8 @@ class FieldSelector {
               std::span<const FieldEdits> edits, std::string& out) const;
   // The same from one flat list, already in document order: sorted by match, then by begin
   // (no per-field lists to allocate for a record with many fields).
-  void splice(std::string_view record, std::span<const FieldMatch> matches,
-              std::span<const MatchEdit> edits, std::string& out) const;
+  void splice_flat(std::string_view record, std::span<const FieldMatch> matches,
+                   std::span<const MatchEdit> edits, std::string& out) const;
 
   // Gives back the scratch memory (parser, padded copy, decoded texts), which grows to the
   // largest record seen; matches of the last select() are invalid afterwards.

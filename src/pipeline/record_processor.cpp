@@ -103,7 +103,7 @@ struct RecordProcessor::Impl {
     match_edits.reserve(result.edits.size());
     for (const auto& e : result.edits)
       match_edits.push_back({field_match[e.field], {e.begin, e.end, e.replacement}});
-    selector.splice(record, matches, match_edits, into);
+    selector.splice_flat(record, matches, match_edits, into);
   }
 
   // Writes the counterfactual line of `record`: straight into `out`, or through `line` when
