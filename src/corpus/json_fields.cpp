@@ -63,6 +63,14 @@ bool is_json_number(std::string_view s) {
   return i == n;
 }
 
+// A parser with a small capacity. simdjson's depth bookkeeping (checked in its development
+// builds) must have room for every level the walk accepts; later growth of the capacity keeps
+// this depth. A failure here shows again, as an error, when select() grows the capacity.
+void allocate_small(od::parser& parser) {
+  simdjson::error_code e = parser.allocate(64 * 1024, kMaxDepth + 8);
+  (void)e;
+}
+
 Error input_error(std::string reason) {
   return make_error(ErrorKind::input, "", std::move(reason));
 }
@@ -201,11 +209,7 @@ struct FieldSelector::Impl {
 };
 
 FieldSelector::FieldSelector(std::vector<PointerPattern> patterns) : impl_(new Impl) {
-  // simdjson's depth bookkeeping (checked in its development builds) must have room for
-  // every level the walk accepts; later growth of the capacity keeps this depth.
-  // A failure here shows again, as an error, when select() grows the capacity.
-  simdjson::error_code e = impl_->parser.allocate(64 * 1024, kMaxDepth + 8);
-  (void)e;
+  allocate_small(impl_->parser);
   impl_->toks.reserve(patterns.size());
   for (const PointerPattern& p : patterns) {
     std::vector<Impl::Tok> ts;
@@ -221,6 +225,20 @@ FieldSelector::FieldSelector(std::vector<PointerPattern> patterns) : impl_(new I
 }
 
 FieldSelector::~FieldSelector() = default;
+
+void FieldSelector::trim() {
+  Impl& m = *impl_;
+  m.parser = od::parser{};
+  allocate_small(m.parser);
+  m.buffer = {};
+  m.tables = {};
+  m.align_arena = {};
+  m.text_arena = {};
+  m.scratch = {};
+  m.scratch_align = {};
+  m.active = {};
+  m.path = {};
+}
 
 Status FieldSelector::select(std::string_view record, std::vector<FieldMatch>& out,
                              SelectStats& stats) {
@@ -555,31 +573,40 @@ void FieldSelector::splice(std::string_view record, std::span<const FieldMatch> 
   std::vector<const FieldEdits*> order;
   order.reserve(edits.size());
   for (const FieldEdits& fe : edits) {
-    if (fe.match >= matches.size() || fe.edits.empty()) continue;
-    const FieldMatch& m = matches[fe.match];
-    if (!m.is_string || m.raw_end > record.size() || m.raw_end < m.raw_begin + 2) continue;
-    if (m.align >= 0 && static_cast<size_t>(m.align) >= impl_->tables.size()) continue;
-    order.push_back(&fe);
+    if (fe.match < matches.size()) order.push_back(&fe);
   }
   std::stable_sort(order.begin(), order.end(), [&](const FieldEdits* x, const FieldEdits* y) {
     return matches[x->match].raw_begin < matches[y->match].raw_begin;
   });
+  std::vector<MatchEdit> flat;
+  for (const FieldEdits* fe : order)
+    for (const StringEdit& ed : fe->edits) flat.push_back({fe->match, ed});
+  splice_flat(record, matches, flat, out);
+}
 
+void FieldSelector::splice_flat(std::string_view record, std::span<const FieldMatch> matches,
+                                std::span<const MatchEdit> edits, std::string& out) const {
+  auto usable = [&](uint32_t match) {
+    if (match >= matches.size()) return false;
+    const FieldMatch& m = matches[match];
+    if (!m.is_string || m.raw_end > record.size() || m.raw_end < m.raw_begin + 2) return false;
+    return m.align < 0 || static_cast<size_t>(m.align) < impl_->tables.size();
+  };
   size_t cursor = 0;  // bytes of `record` before this are already written
-  for (const FieldEdits* fe : order) {
-    const FieldMatch& m = matches[fe->match];
+  for (const MatchEdit& me : edits) {
+    if (!usable(me.match)) continue;
+    const FieldMatch& m = matches[me.match];
+    const StringEdit& ed = me.edit;
     const size_t inner = m.raw_begin + 1;  // just after the opening quote
     const uint32_t size = static_cast<uint32_t>(m.text.size());
-    for (const StringEdit& ed : fe->edits) {
-      uint32_t b = std::min(ed.begin, size);
-      uint32_t e = std::min(std::max(ed.end, b), size);
-      size_t rb = inner + impl_->raw_offset(m, b);
-      size_t re = inner + impl_->raw_offset(m, e);
-      if (rb < cursor) continue;  // overlaps an earlier edit: ignored
-      out.append(record.substr(cursor, rb - cursor));
-      append_json_escaped(ed.replacement, out);
-      cursor = std::max(re, rb);
-    }
+    uint32_t b = std::min(ed.begin, size);
+    uint32_t e = std::min(std::max(ed.end, b), size);
+    size_t rb = inner + impl_->raw_offset(m, b);
+    size_t re = inner + impl_->raw_offset(m, e);
+    if (rb < cursor) continue;  // overlaps an earlier edit: ignored
+    out.append(record.substr(cursor, rb - cursor));
+    append_json_escaped(ed.replacement, out);
+    cursor = std::max(re, rb);
   }
   out.append(record.substr(cursor));
 }

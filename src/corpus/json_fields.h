@@ -45,6 +45,12 @@ struct FieldEdits {
   std::vector<StringEdit> edits;
 };
 
+// One edit of a flat list: a replacement in the string of match `match`.
+struct MatchEdit {
+  uint32_t match = 0;  // index into the select() output
+  StringEdit edit;
+};
+
 // One per worker thread: owns the parser and scratch buffers, reused across records.
 // Not copyable; not thread-safe.
 class FieldSelector {
@@ -66,6 +72,14 @@ class FieldSelector {
   // `matches` must be the output of the last select() on this same `record`.
   void splice(std::string_view record, std::span<const FieldMatch> matches,
               std::span<const FieldEdits> edits, std::string& out) const;
+  // The same from one flat list, already in document order: sorted by match, then by begin
+  // (no per-field lists to allocate for a record with many fields).
+  void splice_flat(std::string_view record, std::span<const FieldMatch> matches,
+                   std::span<const MatchEdit> edits, std::string& out) const;
+
+  // Gives back the scratch memory (parser, padded copy, decoded texts), which grows to the
+  // largest record seen; matches of the last select() are invalid afterwards.
+  void trim();
 
  private:
   struct Impl;

@@ -33,10 +33,9 @@ struct RecordProcessor::Impl {
   std::vector<corpus::FieldMatch> matches;
   std::vector<uint32_t> field_match;  // field index -> match index
   std::vector<std::string_view> fields;
-  std::vector<std::string> pointers;
   rewrite::RecordResult result;
-  std::vector<corpus::FieldEdits> field_edits;
-  std::string line;  // a counterfactual line
+  std::vector<corpus::MatchEdit> match_edits;
+  std::string line;  // a counterfactual line (with --provenance)
   std::string tmp;
 
   Impl(const RunOptions& o, std::vector<corpus::PointerPattern> patterns,
@@ -88,29 +87,56 @@ struct RecordProcessor::Impl {
     }
   }
 
-  // Builds the counterfactual of `record` from result.edits into `line`.
-  void build_counterfactual(std::string_view record) {
-    line.clear();
+  // Appends the counterfactual of `record`, built from result.edits, to `into`.
+  void build_counterfactual(std::string_view record, std::string& into) {
     if (options.format == Format::text) {
       size_t pos = 0;
       for (const auto& e : result.edits) {
-        line.append(record.substr(pos, e.begin - pos));
-        line.append(e.replacement);
+        into.append(record.substr(pos, e.begin - pos));
+        into.append(e.replacement);
         pos = e.end;
       }
-      line.append(record.substr(pos));
+      into.append(record.substr(pos));
       return;
     }
-    field_edits.clear();
-    for (const auto& e : result.edits) {
-      uint32_t m = field_match[e.field];
-      if (field_edits.empty() || field_edits.back().match != m) {
-        field_edits.push_back({m, {}});
-      }
-      field_edits.back().edits.push_back({e.begin, e.end, e.replacement});
-    }
-    selector.splice(record, matches, field_edits, line);
+    // Edits are sorted by (field, begin) and fields are in document order.
+    match_edits.clear();
+    match_edits.reserve(result.edits.size());
+    for (const auto& e : result.edits)
+      match_edits.push_back({field_match[e.field], {e.begin, e.end, e.replacement}});
+    selector.splice_flat(record, matches, match_edits, into);
   }
+
+  // Writes the counterfactual line of `record`: straight into `out`, or through `line` when
+  // a provenance member is added to it.
+  void write_counterfactual(std::string_view record, std::string_view eol,
+                            const RecordOrigin& origin, std::string& out) {
+    if (options.provenance && options.format == Format::jsonl) {
+      line.clear();
+      build_counterfactual(record, line);
+      write_line(line, eol, origin, true, out);
+      return;
+    }
+    build_counterfactual(record, out);
+    write_line({}, eol, origin, true, out);
+  }
+
+  // After a large record, gives back the scratch that grew with it (per field, per edit and
+  // per byte), so each worker holds it only while such a record is being processed.
+  void trim_after(std::string_view record) {
+    if (record.size() < kTrimAbove && fields.size() < kTrimFieldsAbove) return;
+    matches = {};
+    field_match = {};
+    fields = {};
+    result = {};
+    match_edits = {};
+    line = {};
+    tmp = {};
+    selector.trim();
+    worker->trim();
+  }
+  static constexpr size_t kTrimAbove = 4 << 20;
+  static constexpr size_t kTrimFieldsAbove = 1 << 16;
 
   void audit_line(const RecordOrigin& origin, const char* action, std::string& out) {
     audit::JsonWriter w(out);
@@ -119,8 +145,9 @@ struct RecordProcessor::Impl {
     w.key("edits").begin_array();
     for (const auto& e : result.edits) {
       w.begin_object();
-      w.key("field").value(options.format == Format::text ? std::string_view("")
-                                                          : std::string_view(pointers[e.field]));
+      w.key("field").value(options.format == Format::text
+                               ? std::string_view("")
+                               : std::string_view(matches[field_match[e.field]].pointer));
       w.key("at").value(static_cast<uint64_t>(e.begin));
       w.key("len").value(static_cast<uint64_t>(e.end - e.begin));
       w.key("from").value(fields[e.field].substr(e.begin, e.end - e.begin));
@@ -179,9 +206,15 @@ struct RecordProcessor::Impl {
 
   Status process(std::string_view record, std::string_view eol, const RecordOrigin& origin,
                  RecordOutput& out) {
+    Status s = process_record(record, eol, origin, out);
+    trim_after(record);
+    return s;
+  }
+
+  Status process_record(std::string_view record, std::string_view eol, const RecordOrigin& origin,
+                        RecordOutput& out) {
     audit::Stats& st = *out.stats;
     fields.clear();
-    pointers.clear();
     field_match.clear();
     std::string_view identity = record;
     if (options.format == Format::jsonl) {
@@ -203,7 +236,6 @@ struct RecordProcessor::Impl {
         }
         if (!m.is_string) continue;
         fields.push_back(m.text);
-        pointers.push_back(m.pointer);
         field_match.push_back(i);
       }
     } else {
@@ -294,8 +326,7 @@ struct RecordProcessor::Impl {
       tally(st.after, result.before);
     }
     if (replace || add) {
-      build_counterfactual(record);
-      write_line(line, eol, origin, true, *out.out);
+      write_counterfactual(record, eol, origin, *out.out);
       ++st.records_written;
       if (replace) {
         ++st.records_replaced;

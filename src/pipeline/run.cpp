@@ -17,6 +17,7 @@
 #include "io/paths.h"
 #include "io/sink.h"
 #include "io/source.h"
+#include "pipeline/budget.h"
 #include "pipeline/queue.h"
 #include "pipeline/record_processor.h"
 
@@ -47,7 +48,8 @@ struct Batch {
   bool input_end = false;  // the last batch of `input`
   FileInfo input_info;
   uint64_t blank_lines = 0;
-  uint64_t raw_pos = 0;  // raw bytes consumed over all inputs when this batch was cut
+  uint64_t raw_pos = 0;   // raw bytes consumed over all inputs when this batch was cut
+  uint64_t budgeted = 0;  // bytes taken from the in-flight byte budget
   std::optional<Error> fatal;
 
   std::string out, edits, quarantine, rejects;
@@ -125,6 +127,7 @@ class Runner {
   std::unique_ptr<io::Sink> out_, edits_, quarantine_, rejects_;
 
   std::unique_ptr<std::counting_semaphore<>> tokens_;
+  std::unique_ptr<ByteBudget> budget_;  // input bytes of batches sent and not yet written
   unsigned max_in_flight_ = 4;
   WorkQueue<BatchPtr> work_;
   Reorder reorder_;
@@ -206,6 +209,8 @@ BatchPtr Runner::new_batch(uint32_t input) {
 }
 
 void Runner::send(BatchPtr b) {
+  b->budgeted = b->data.size();
+  if (!budget_->acquire(b->budgeted)) return;  // stopped
   work_.push(std::move(b));
 }
 
@@ -394,6 +399,7 @@ Status Runner::publish() {
 void Runner::stop_all() {
   stop_ = true;
   work_.close();
+  budget_->close();
   tokens_->release(static_cast<std::ptrdiff_t>(max_in_flight_) + 2);
 }
 
@@ -404,6 +410,8 @@ Result<RunResult> Runner::run() {
   result_.threads = threads_;
   max_in_flight_ = 2 * threads_ + 2;
   tokens_ = std::make_unique<std::counting_semaphore<>>(max_in_flight_);
+  budget_ = std::make_unique<ByteBudget>(in_flight_byte_cap(threads_, opt_.max_record_bytes));
+  result_.batch_byte_cap = budget_->cap();
   result_.tally = empty_tally();
   if (const auto* p = engine_.pack()) {
     result_.stats.before.resize(p->groups().size());
@@ -429,7 +437,9 @@ Result<RunResult> Runner::run() {
     bool last = b->last;
     status = write_batch(*b);
     uint64_t raw_pos = b->raw_pos;
+    uint64_t budgeted = b->budgeted;
     b.reset();
+    budget_->release(budgeted);
     tokens_->release();
     if (!status.ok() || last) break;
     if (opt_.on_progress) {
@@ -454,12 +464,17 @@ Result<RunResult> Runner::run() {
     return std::move(status).error();
   }
 
+  result_.peak_batch_bytes = budget_->peak();
   result_.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   EVENHAND_TRY(publish());
   return std::move(result_);
 }
 
 }  // namespace
+
+uint64_t in_flight_byte_cap(unsigned threads, uint64_t max_record_bytes) {
+  return std::max(1u, threads) * (max_record_bytes + 2 * kBatchBytes);
+}
 
 unsigned effective_threads(unsigned threads) {
   if (threads > 0) return threads;

@@ -88,7 +88,10 @@ class Worker {
  public:
   virtual ~Worker() = default;
   // Analyses the fields of one record (valid UTF-8 each) and fills `out`.
+  // Scratch grows to the largest record seen; most of it is per field or per token.
   virtual void rewrite(std::span<const std::string_view> fields, RecordResult& out) = 0;
+  // Gives the scratch memory back (called after a large record); results are unchanged.
+  virtual void trim() {}
 };
 
 class Engine {

@@ -94,6 +94,7 @@ class LexiconWorker final : public Worker {
  public:
   explicit LexiconWorker(const LexiconEngine& e) : e_(e) {}
   void rewrite(std::span<const std::string_view> fields, RecordResult& out) override;
+  void trim() override;
 
  private:
   struct Item {
@@ -128,8 +129,15 @@ class LexiconWorker final : public Worker {
   const LexiconEngine& e_;
   text::Tokenizer tokenizer_;
   std::vector<text::Token> tokens_;
+  // A guard anywhere in the fields (null if none); with `keep`, each field stays prepared in
+  // fields_ for the matching, else fields_[0] is reused and the matching prepares again.
+  const pack::Guard* find_guard(std::span<const std::string_view> fields, bool keep);
+
   // Each field of the record, prepared once (tokens, folded text, protected spans): the guard
-  // check and the matching both read them.
+  // check and the matching both read them. A record whose fields are larger than
+  // kKeptFieldBytes keeps one field prepared at a time and prepares each field twice, so this
+  // scratch stays the size of its largest field, not of the record.
+  static constexpr size_t kKeptFieldBytes = 1 << 20;
   struct FieldState {
     std::vector<Item> items;
     std::string fold;
@@ -613,18 +621,12 @@ size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size
   return last;
 }
 
-void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResult& out) {
-  size_t n_groups = e_.pack_->groups().size();
-  out.clear();
-  out.before.assign(n_groups, 0);
-  out.after.assign(n_groups, 0);
-  // Every field is prepared once; a guard anywhere in the record blocks the whole record, so
-  // the guards are looked for before any field is matched.
-  if (fields_.size() < fields.size()) fields_.resize(fields.size());
+const pack::Guard* LexiconWorker::find_guard(std::span<const std::string_view> fields, bool keep) {
   const pack::Guard* guard = nullptr;
-  bool has_guards = !e_.guards_.by_first.empty();
+  const bool has_guards = !e_.guards_.by_first.empty();
+  if (!keep && !has_guards) return nullptr;
   for (size_t f = 0; f < fields.size(); ++f) {
-    cur_ = &fields_[f];
+    cur_ = &fields_[keep ? f : 0];
     prepare_field(fields[f]);
     if (guard || !has_guards) continue;
     const std::vector<Item>& items = cur_->items;
@@ -636,14 +638,41 @@ void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResu
         break;
       }
     }
+    if (guard && !keep) break;
   }
+  return guard;
+}
+
+void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResult& out) {
+  size_t n_groups = e_.pack_->groups().size();
+  out.clear();
+  out.before.assign(n_groups, 0);
+  out.after.assign(n_groups, 0);
+  size_t bytes = 0;
+  for (std::string_view f : fields) bytes += f.size();
+  // Every field is prepared (once, when they fit in kKeptFieldBytes); a guard anywhere in the
+  // record blocks the whole record, so the guards are looked for before any field is matched.
+  const bool keep = bytes <= kKeptFieldBytes;
+  const size_t states = keep ? fields.size() : std::min<size_t>(fields.size(), 1);
+  if (fields_.size() < states) fields_.resize(states);
+  const pack::Guard* guard = find_guard(fields, keep);
   out.guard = guard;
   for (uint32_t f = 0; f < fields.size(); ++f) {
-    cur_ = &fields_[f];
+    cur_ = &fields_[keep ? f : 0];
+    if (!keep) prepare_field(fields[f]);
     words_.clear();
     field_matches(f, fields[f], out, guard != nullptr);
   }
   keep_edits_apart(out);
+}
+
+void LexiconWorker::trim() {
+  fields_ = {};
+  tokens_ = {};
+  words_ = {};
+  cands_ = {};
+  np_tokens_ = {};
+  cur_ = nullptr;
 }
 
 }  // namespace

@@ -320,3 +320,33 @@ TEST_CASE("several inputs are read in order and each is described") {
   REQUIRE(read_file(d.file("plain")) ==
           "{\"text\":\"one\"}\n{\"text\":\"two\"}\n{\"text\":\"three\"}\n");
 }
+
+TEST_CASE("batches in flight hold at most the byte cap of input, whatever the thread count") {
+  // Records of about 100 KB: a 256 KiB batch holds three, and 2 x threads + 2 batches of
+  // them would be more than the byte cap for a --max-record-bytes of 128 KiB.
+  TempDir d;
+  std::string corpus;
+  for (int i = 0; i < 40; ++i) {
+    corpus += "{\"id\":" + std::to_string(i) + ",\"text\":\"";
+    for (int k = 0; k < 10000; ++k) corpus += k % 7 == 0 ? "alpha " : "gamma ";
+    corpus += "\"}\n";
+  }
+  write_file(d.file("in.jsonl"), corpus);
+  SwapEngine engine;
+  std::string outs[2];
+  for (int k = 0; k < 2; ++k) {
+    auto o = base_options(d);
+    o.threads = k == 0 ? 1 : 3;
+    o.fields = {"/text"};
+    o.max_record_bytes = 128 << 10;
+    auto r = pipeline::run(o, engine);
+    REQUIRE(r.ok());
+    REQUIRE(r->stats.records_read == 40);
+    REQUIRE(r->batch_byte_cap == pipeline::in_flight_byte_cap(o.threads, o.max_record_bytes));
+    REQUIRE(r->batch_byte_cap == o.threads * ((128u << 10) + (512u << 10)));
+    REQUIRE(r->peak_batch_bytes > 0);
+    REQUIRE(r->peak_batch_bytes <= r->batch_byte_cap);
+    outs[k] = read_file(o.output);
+  }
+  REQUIRE(outs[0] == outs[1]);
+}

@@ -3,6 +3,8 @@
 // guards respected, and rewriting a counterfactual again giving back the original.
 #include <catch2/catch.hpp>
 
+#include <numeric>
+
 #include "pack/pack.h"
 #include "rewrite/engine.h"
 #include "rewrite/rewriter.h"
@@ -239,4 +241,41 @@ TEST_CASE("keep_edits_apart sorts, drops a clashing edit and counts its mention 
   CHECK(s.edits.size() == 2);
   CHECK(s.flags.empty());
   CHECK(s.entry_hits == std::vector<uint32_t>{4, 5});
+}
+
+TEST_CASE("a record larger than the kept-field scratch gives the same edits, guards included") {
+  // Over 1 MiB of fields: the worker prepares one field at a time (twice) instead of keeping
+  // them all; the edits, counts and guard must not change, nor after trim().
+  auto engine = rewrite::make_engine(en_pack(), {});
+  REQUIRE(engine.ok());
+  auto worker = (*engine)->make_worker();
+  std::string filler(2000, 'x');
+  std::vector<std::string> texts;
+  for (int i = 0; i < 600; ++i)
+    texts.push_back((i % 2 ? "She said her aunt came. " : "He met his son. ") + filler);
+  std::vector<std::string_view> big(texts.begin(), texts.end());
+  rewrite::RecordResult large;
+  worker->rewrite(big, large);
+  REQUIRE(large.edits.size() == 600 * 3);
+  for (uint32_t f : {0u, 1u, 599u}) {
+    rewrite::RecordResult one;
+    std::string_view field = texts[f];
+    worker->rewrite(std::span<const std::string_view>(&field, 1), one);
+    std::vector<std::pair<uint32_t, std::string>> a, b;
+    for (const auto& e : one.edits) a.push_back({e.begin, e.replacement});
+    for (const auto& e : large.edits)
+      if (e.field == f) b.push_back({e.begin, e.replacement});
+    REQUIRE(a == b);
+  }
+  texts.push_back("She is pregnant.");  // a guard in the last field blocks every field
+  big.assign(texts.begin(), texts.end());
+  worker->trim();
+  rewrite::RecordResult guarded;
+  worker->rewrite(big, guarded);
+  REQUIRE(guarded.guard != nullptr);
+  REQUIRE(guarded.edits.empty());
+  auto total = [](const rewrite::GroupCounts& c) {
+    return std::accumulate(c.begin(), c.end(), 0u);
+  };
+  REQUIRE(total(guarded.before) == total(large.before) + 1);  // the guard's "She" counts too
 }
