@@ -15,8 +15,8 @@
 using namespace evenhand;
 
 extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
-  static const auto* base = new std::map<std::string, std::string>(
-      pack::builtin_pack_files("es-gender").value());
+  static const auto* base =
+      new std::map<std::string, std::string>(pack::builtin_pack_files("es-gender").value());
   std::string_view input(reinterpret_cast<const char*>(data), size);
   auto files = *base;
   for (auto& [name, bytes] : fuzz::split_files(input, "noun-phrase.data")) {

@@ -19,7 +19,8 @@ void check_lexicon(const CompiledPack& p) {
   const size_t groups = p.groups().size();
   FUZZ_CHECK(groups > 0, "a compiled pack without groups");
   for (const WordSet& s : p.sets()) FUZZ_CHECK(s.forms.size() == groups, "a set's forms != groups");
-  for (const NamePair& n : p.names()) FUZZ_CHECK(n.names.size() == groups, "a name pair's names != groups");
+  for (const NamePair& n : p.names())
+    FUZZ_CHECK(n.names.size() == groups, "a name pair's names != groups");
   for (std::string_view key : p.keys()) {
     const std::vector<LexEntry>* entries = p.lookup(key);
     FUZZ_CHECK(entries && !entries->empty(), "a key without entries");

@@ -17,6 +17,9 @@ using evenhand::fuzz::Mix;
 
 namespace {
 
+// Small reads: a fresh 1 MiB buffer per run would cost more than the run itself.
+constexpr size_t kReadSize = 4096;
+
 std::vector<PointerPattern> patterns_for(unsigned pick) {
   static const std::vector<std::vector<std::string>> kSets = {
       {"/text", "/messages/*/content"}, {"/*"}, {"/*/*", "/a/*/*"}, {"", "/text"}};
@@ -51,8 +54,10 @@ struct EditPlan {
 
 // Chooses edits at character boundaries of the matched strings.
 void plan_edits(const std::vector<FieldMatch>& ms, Mix& mix, EditPlan& plan) {
-  static const char* kRepl[] = {"", "he", "\"", "\\", "\n", "\x01", "\xC3\xA9", "\xE2\x80\x99",
-                                "\xF0\x9F\x98\x80", "}", "\\u0041", "a\"b\\c\td"};
+  static const char* kRepl[] = {"",         "he",           "\"",
+                                "\\",       "\n",           "\x01",
+                                "\xC3\xA9", "\xE2\x80\x99", "\xF0\x9F\x98\x80",
+                                "}",        "\\u0041",      "a\"b\\c\td"};
   plan.edits.clear();
   plan.replacements.clear();
   plan.replacements.reserve(64);
@@ -112,7 +117,8 @@ void check_splice(std::string_view record, FieldSelector& sel, FieldSelector& ag
     FUZZ_CHECK(ms2[i].text == apply_edits(texts[i], fe.edits),
                "edited string at " + ms[i].pointer + " is not the edits applied");
     std::string_view gap_in = record.substr(in_pos, ms[i].raw_begin - in_pos);
-    std::string_view gap_out = std::string_view(spliced).substr(out_pos, ms2[i].raw_begin - out_pos);
+    std::string_view gap_out =
+        std::string_view(spliced).substr(out_pos, ms2[i].raw_begin - out_pos);
     FUZZ_CHECK(gap_in == gap_out, "bytes outside the edited strings changed");
     in_pos = ms[i].raw_end;
     out_pos = ms2[i].raw_end;
@@ -125,7 +131,7 @@ void check_splice(std::string_view record, FieldSelector& sel, FieldSelector& ag
 
 size_t count_records(std::string_view stream) {
   fuzz::MemorySource src(stream, 1 << 20);
-  RecordReader reader(src, Framing::lines, SIZE_MAX);
+  RecordReader reader(src, Framing::lines, SIZE_MAX, kReadSize);
   RawRecord r;
   size_t n = 0;
   for (;;) {
@@ -148,7 +154,7 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   const size_t bom = stream.substr(0, 3) == "\xEF\xBB\xBF" ? 3 : 0;
 
   fuzz::MemorySource src(stream, chunk);
-  RecordReader reader(src, framing, max);
+  RecordReader reader(src, framing, max, kReadSize);
   FieldSelector sel(patterns_for(flags >> 6)), again(patterns_for(flags >> 6));
   std::vector<FieldMatch> ms;
   Mix mix{size * 0x9E37u + flags};
@@ -176,8 +182,10 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
     FUZZ_CHECK(r.size == r.bytes.size() && r.size <= max, "record size disagrees");
     if (framing == Framing::lines) {
       FUZZ_CHECK(stream.substr(r.offset, r.size) == r.bytes, "record bytes are not the stream's");
-      FUZZ_CHECK(stream.substr(r.offset + r.size, r.eol.size()) == r.eol, "eol is not the stream's");
-      FUZZ_CHECK(is_blank(stream.substr(last_end, r.offset - last_end)), "skipped a non-blank line");
+      FUZZ_CHECK(stream.substr(r.offset + r.size, r.eol.size()) == r.eol,
+                 "eol is not the stream's");
+      FUZZ_CHECK(is_blank(stream.substr(last_end, r.offset - last_end)),
+                 "skipped a non-blank line");
       last_end = r.offset + r.size + r.eol.size();
     } else {
       size_t taken = 0;

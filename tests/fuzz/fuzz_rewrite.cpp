@@ -25,6 +25,9 @@ using namespace evenhand::pipeline;
 
 namespace {
 
+// Small reads: a fresh 1 MiB buffer per run would cost more than the run itself.
+constexpr size_t kReadSize = 4096;
+
 struct Engines {
   std::vector<std::unique_ptr<rewrite::Engine>> all;  // en swap, en toward neutral, es, es toward
   Engines() {
@@ -95,7 +98,7 @@ bool logged_edits(const std::string& log, std::vector<LoggedEdit>& out) {
 
 // `text` with the logged edits of `field` applied, checking each "from" against `text`.
 std::string apply_edits(std::string_view text, const std::vector<LoggedEdit>& edits,
-                  const std::string& field) {
+                        const std::string& field) {
   std::string out;
   uint64_t pos = 0;
   for (const LoggedEdit& e : edits) {
@@ -114,7 +117,8 @@ std::string apply_edits(std::string_view text, const std::vector<LoggedEdit>& ed
 void check_counterfactual(std::string_view record, std::string_view cf, bool jsonl,
                           const std::vector<LoggedEdit>& edits) {
   if (!jsonl) {
-    FUZZ_CHECK(apply_edits(record, edits, "") == cf, "text record: the edits do not give the output");
+    FUZZ_CHECK(apply_edits(record, edits, "") == cf,
+               "text record: the edits do not give the output");
     return;
   }
   static corpus::FieldSelector in_sel(patterns()), out_sel(patterns());
@@ -160,20 +164,33 @@ void check_engine(std::string_view record, bool jsonl, size_t engine_index,
 extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   static Engines* engines = new Engines();
   if (size < 1) return 0;
-  const unsigned flags = data[0];
-  RunOptions opt;
-  opt.format = (flags & 4) ? Format::text : Format::jsonl;
-  opt.framing = (flags & 12) == 12 ? corpus::Framing::paragraphs : corpus::Framing::lines;
-  opt.mode = (flags & 16) ? Mode::substitute : Mode::augment;
-  opt.rate = 1.0;
-  opt.on_flagged = (flags & 32) ? OnFlagged::original : OnFlagged::counterfactual;
+  const unsigned flags = data[0] & 63;
+  // One processor per choice of options, made once (a worker per run would dominate).
+  struct Setup {
+    RunOptions opt;
+    std::unique_ptr<RecordProcessor> proc;
+  };
+  static std::vector<std::unique_ptr<Setup>> setups(64);
+  if (!setups[flags]) {
+    auto su = std::make_unique<Setup>();
+    RunOptions& o = su->opt;
+    o.format = (flags & 4) ? Format::text : Format::jsonl;
+    o.framing = (flags & 12) == 12 ? corpus::Framing::paragraphs : corpus::Framing::lines;
+    o.mode = (flags & 16) ? Mode::substitute : Mode::augment;
+    o.rate = 1.0;
+    o.on_flagged = (flags & 32) ? OnFlagged::original : OnFlagged::counterfactual;
+    su->proc = std::make_unique<RecordProcessor>(
+        o, o.format == Format::jsonl ? patterns() : std::vector<corpus::PointerPattern>{},
+        std::nullopt, *engines->all[flags & 3]);
+    setups[flags] = std::move(su);
+  }
+  const RunOptions& opt = setups[flags]->opt;
+  RecordProcessor& proc = *setups[flags]->proc;
   const bool jsonl = opt.format == Format::jsonl;
   const rewrite::Engine& engine = *engines->all[flags & 3];
-  RecordProcessor proc(opt, jsonl ? patterns() : std::vector<corpus::PointerPattern>{},
-                       std::nullopt, engine);
   std::string_view stream(reinterpret_cast<const char*>(data) + 1, size - 1);
   fuzz::MemorySource src(stream, 1 << 20);
-  corpus::RecordReader reader(src, opt.framing, 1 << 20);
+  corpus::RecordReader reader(src, opt.framing, 1 << 20, kReadSize);
   const std::string path = "fuzz-input";
   audit::Stats stats;
   std::string out, log, all_out;
@@ -196,8 +213,8 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
       continue;
     }
     const std::string eol = opt.framing == corpus::Framing::paragraphs ? "\n\n"
-                            : r.eol.empty()                          ? "\n"
-                                                                     : std::string(r.eol);
+                            : r.eol.empty()                            ? "\n"
+                                                                       : std::string(r.eol);
     const std::string original = std::string(r.bytes) + eol;
     check_engine(r.bytes, jsonl, flags & 3, engine);
     all_out += out;
@@ -217,11 +234,11 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
     check_counterfactual(r.bytes, cf, jsonl, edits);
   }
   FUZZ_CHECK(framed == stats.records_read + rejected, "records framed != read + rejected");
-  FUZZ_CHECK(stats.records_written ==
-                 stats.records_kept + stats.records_added + stats.records_replaced,
-             "records written != kept + added + replaced");
+  FUZZ_CHECK(
+      stats.records_written == stats.records_kept + stats.records_added + stats.records_replaced,
+      "records written != kept + added + replaced");
   fuzz::MemorySource again(all_out, 1 << 20);
-  corpus::RecordReader reread(again, opt.framing, SIZE_MAX);
+  corpus::RecordReader reread(again, opt.framing, SIZE_MAX, kReadSize);
   uint64_t lines = 0;
   for (auto k = reread.next(r); k.ok() && *k != corpus::RecordReader::Kind::end; k = reread.next(r))
     ++lines;

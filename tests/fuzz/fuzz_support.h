@@ -25,15 +25,16 @@ namespace evenhand::fuzz {
 }
 
 // Aborts (a finding) when `cond` is false; `what` says what was being checked.
-#define FUZZ_CHECK(cond, what)                                            \
-  do {                                                                    \
+#define FUZZ_CHECK(cond, what)                                              \
+  do {                                                                      \
     if (!(cond)) ::evenhand::fuzz::fail(#cond, (what), __FILE__, __LINE__); \
   } while (0)
 
 // Bytes from memory, at most `chunk` per read(), so readers meet their refill paths.
 class MemorySource final : public io::Source {
  public:
-  MemorySource(std::string_view data, size_t chunk) : data_(data), chunk_(std::max<size_t>(1, chunk)) {
+  MemorySource(std::string_view data, size_t chunk)
+      : data_(data), chunk_(std::max<size_t>(1, chunk)) {
     path_ = "fuzz-input";
   }
   Result<size_t> read(char* buf, size_t size) override {
@@ -56,9 +57,8 @@ class MemorySource final : public io::Source {
 inline std::map<std::string, std::string> split_files(std::string_view data,
                                                       const std::string& first_name) {
   std::vector<size_t> heads;  // offsets of the "%% NAME" lines
-  for (size_t p = 0; p < data.size(); p = data.find('\n', p) == std::string_view::npos
-                                                 ? data.size()
-                                                 : data.find('\n', p) + 1) {
+  for (size_t p = 0; p < data.size();
+       p = data.find('\n', p) == std::string_view::npos ? data.size() : data.find('\n', p) + 1) {
     if (data.substr(p, 3) == "%% ") heads.push_back(p);
   }
   std::map<std::string, std::string> files;

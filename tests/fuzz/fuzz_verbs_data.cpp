@@ -1,7 +1,7 @@
 // Fuzz target: the verb table file (rewrite/verb_agreement.h, rules/en-gender/verbs.data).
 // Input: a verbs.data text. Checked: parse() returns a table or an error with a line; a
-// parsed table answers for fixed tokens and for every word of the input (folded): a plural answer has
-// a form, an unchanged one keeps the token, an unknown one says why.
+// parsed table answers for fixed tokens and for every word of the input (folded): a plural answer
+// has a form, an unchanged one keeps the token, an unknown one says why.
 #include <string>
 #include <vector>
 
@@ -37,8 +37,9 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   }
   const VerbTable& t = *table.value();
   static const std::vector<std::string_view> kTokens = {
-      "is", "was", "goes", "has", "can", "won't", "doesn't", "isn\xE2\x80\x99t", "s", "",
-      "watches", "axes", "summons", "went", "going", "been", "lead", "'s", "\xE2\x80\x99"};
+      "is",   "was", "goes",        "has",  "can",     "won't", "doesn't", "isn\xE2\x80\x99t",
+      "s",    "",    "watches",     "axes", "summons", "went",  "going",   "been",
+      "lead", "'s",  "\xE2\x80\x99"};
   for (std::string_view tok : kTokens) check_token(t, tok);
   std::vector<std::string> folded;  // the input's words, folded as callers fold them
   for (size_t pos = 0; pos < text.size() && folded.size() < 64;) {
