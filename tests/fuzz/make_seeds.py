@@ -81,7 +81,9 @@ def seeds(src):
     json_literals = [l for l in literals(corpus_tests) if l.lstrip().startswith((b'{', b'['))]
     text_tests = [os.path.join(tests, d, f) for d in ('text', 'rewrite')
                   for f in sorted(os.listdir(os.path.join(tests, d))) if f.endswith('.cpp')]
-    sentences = literals(text_tests)
+    # Distinct test strings with a space in them (sentences rather than names), longest first,
+    # at most 300: the short ctest runs must get through their seeds.
+    sentences = sorted({l for l in literals(text_tests) if b' ' in l}, key=lambda l: (-len(l), l))[:300]
 
     # records: flag byte, size-limit byte, then a stream.
     streams = [c for lines in jsonl for c in chunks(lines[:40], 4)] + [b'\n'.join(json_literals)]
