@@ -6,6 +6,7 @@
 #include <cstring>
 
 #if defined(__x86_64__) || defined(__i386__)
+#include <cpuid.h>
 #include <immintrin.h>
 #define EVENHAND_SHA256_X86 1
 #endif
@@ -128,8 +129,11 @@ __attribute__((target("sha,sse4.1"))) void compress_sha_ni(uint32_t* state, cons
 
 bool detect_sha_ni() {
 #ifdef EVENHAND_SHA256_X86
-  __builtin_cpu_init();
-  return __builtin_cpu_supports("sha") && __builtin_cpu_supports("sse4.1");
+  // CPUID directly: clang 14's __builtin_cpu_supports does not know "sha".
+  unsigned eax = 0, ebx = 0, ecx = 0, edx = 0;
+  if (!__get_cpuid(1, &eax, &ebx, &ecx, &edx) || !(ecx & bit_SSE4_1)) return false;
+  if (!__get_cpuid_count(7, 0, &eax, &ebx, &ecx, &edx)) return false;
+  return (ebx & bit_SHA) != 0;
 #else
   return false;
 #endif

@@ -5,18 +5,18 @@
 
 namespace evenhand::corpus {
 
-namespace {
-constexpr size_t kChunk = 1 << 20;
-}
-
 bool is_blank(std::string_view s) {
   for (char c : s)
     if (c != ' ' && c != '\t' && c != '\r' && c != '\n') return false;
   return true;
 }
 
-RecordReader::RecordReader(io::Source& source, Framing framing, size_t max_record_bytes)
-    : source_(source), framing_(framing), max_(max_record_bytes) {}
+RecordReader::RecordReader(io::Source& source, Framing framing, size_t max_record_bytes,
+                           size_t read_size)
+    : source_(source),
+      framing_(framing),
+      max_(max_record_bytes),
+      read_size_(std::max<size_t>(1, read_size)) {}
 
 Result<bool> RecordReader::fill() {
   if (eof_) return false;
@@ -27,25 +27,32 @@ Result<bool> RecordReader::fill() {
     end_ -= begin_;
     begin_ = 0;
   }
-  if (buf_.size() < end_ + kChunk) buf_.resize(end_ + kChunk);
-  auto n = source_.read(buf_.data() + end_, kChunk);
-  if (!n.ok()) {
-    Error e = std::move(n).error();
-    if (e.file.empty()) e.file = source_.path();
-    return e;
-  }
-  if (*n == 0) {
-    eof_ = true;
-    return false;
-  }
-  if (!started_) {
-    started_ = true;
-    // Drop a UTF-8 byte order mark at the very start of the stream.
-    if (end_ == 0 && *n >= 3 && std::memcmp(buf_.data(), "\xEF\xBB\xBF", 3) == 0) {
-      begin_ = 3;
+  auto read_more = [&]() -> Result<size_t> {
+    if (buf_.size() < end_ + read_size_) buf_.resize(end_ + read_size_);
+    auto n = source_.read(buf_.data() + end_, read_size_);
+    if (!n.ok()) {
+      Error e = std::move(n).error();
+      if (e.file.empty()) e.file = source_.path();
+      return e;
     }
+    end_ += *n;
+    if (*n == 0) eof_ = true;
+    return *n;
+  };
+  auto n = read_more();
+  if (!n.ok()) return std::move(n).error();
+  if (*n == 0) return false;
+  if (!started_) {
+    // Drop a UTF-8 byte order mark at the very start of the stream. A source may hand out
+    // fewer than its three bytes per read: read on while what came is a prefix of one.
+    constexpr const char* kBom = "\xEF\xBB\xBF";
+    while (end_ < 3 && !eof_ && std::memcmp(buf_.data(), kBom, end_) == 0) {
+      auto more = read_more();
+      if (!more.ok()) return std::move(more).error();
+    }
+    started_ = true;
+    if (end_ >= 3 && std::memcmp(buf_.data(), kBom, 3) == 0) begin_ = 3;
   }
-  end_ += *n;
   return true;
 }
 
@@ -85,7 +92,7 @@ Result<RecordReader::Kind> RecordReader::next_line(RawRecord& out) {
       return Kind::record;
     }
     scanned = end_;
-    if (end_ - begin_ > max_ + 1) {
+    if (end_ - begin_ > max_ && end_ - begin_ - max_ > 1) {  // "> max_ + 1" without overflow
       // Too long already: skip to the end of the line without buffering it.
       uint64_t start = buf_offset_ + begin_;
       uint64_t size = end_ - begin_;

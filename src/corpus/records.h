@@ -31,7 +31,12 @@ class RecordReader {
  public:
   enum class Kind { record, oversized, end };
 
-  RecordReader(io::Source& source, Framing framing, size_t max_record_bytes);
+  // Bytes asked of the source per read: large for throughput. A smaller `read_size` serves
+  // callers that frame many small inputs (the fuzz targets), where the buffer dominates.
+  static constexpr size_t kReadSize = size_t(1) << 20;
+
+  RecordReader(io::Source& source, Framing framing, size_t max_record_bytes,
+               size_t read_size = kReadSize);
   RecordReader(const RecordReader&) = delete;
   RecordReader& operator=(const RecordReader&) = delete;
 
@@ -53,6 +58,7 @@ class RecordReader {
   io::Source& source_;
   Framing framing_;
   size_t max_;
+  size_t read_size_;
   std::string buf_;
   size_t begin_ = 0;         // start of unconsumed bytes in buf_
   size_t end_ = 0;           // end of valid bytes in buf_

@@ -416,22 +416,30 @@ struct NounPhraseAgreement::Worker {
     return t.nouns_.count(std::string(fold(k))) > 0;
   }
 
-  void add_edit(size_t first, size_t last, std::string_view form, EditReason why,
-                const pack::SourceRef* rule, std::string note) {
+  // Adds the edit unless its tokens are claimed or it changes nothing; returns whether it did.
+  // `mention` (from_group, to_group, hit) is set on the edit of a person mention.
+  bool add_edit(size_t first, size_t last, std::string_view form, EditReason why,
+                const pack::SourceRef* rule, std::string note, const Edit* mention = nullptr) {
     for (size_t j = first; j <= last; ++j)
-      if (claimed[j]) return;
+      if (claimed[j]) return false;
     Edit e;
+    if (mention) {
+      e.from_group = mention->from_group;
+      e.to_group = mention->to_group;
+      e.hit = mention->hit;
+    }
     e.field = in.index;
     e.begin = in.tokens[first].begin;
     e.end = in.tokens[last].end;
     std::string_view original = in.text.substr(e.begin, e.end - e.begin);
     text::apply_case(form, text::case_pattern(raw(first)), e.replacement);
-    if (e.replacement == original) return;
+    if (e.replacement == original) return false;
     e.reason = why;
     e.rule = rule;
     e.note = std::move(note);
     for (size_t j = first; j <= last; ++j) claimed[j] = 1;
     edits.push_back(std::move(e));
+    return true;
   }
   void flag(std::string code, std::string detail) {
     out.flags.push_back({std::move(code), std::move(detail)});
@@ -823,12 +831,17 @@ struct NounPhraseAgreement::Worker {
       ++out.after[g];
       return;
     }
+    Edit mention;  // the groups and entry hit its edit carries (Edit::hit)
+    mention.from_group = g;
+    mention.to_group = tg;
+    mention.hit = en.is_name ? static_cast<uint32_t>(pk.sets().size() + en.set) : en.set;
     ++out.after[tg];
-    out.entry_hits.push_back(en.is_name ? static_cast<uint32_t>(pk.sets().size() + en.set)
-                                        : en.set);
+    out.entry_hits.push_back(mention.hit);
     const pack::SourceRef* rule = en.is_name ? &pk.names()[en.set].where : &pk.sets()[en.set].where;
-    add_edit(k, k + len - 1, to_form, en.is_name ? EditReason::name : EditReason::lexicon, rule,
-             "");
+    // Not made when the spelling stays ("la estudiante" -> "el estudiante"): the determiners
+    // still agree below, so the mention moves group all the same.
+    add_edit(k, k + len - 1, to_form, en.is_name ? EditReason::name : EditReason::lexicon, rule, "",
+             &mention);
     if (en.is_name) return;
     auto from = gender_of(g), to = gender_of(tg);
     if (!from || !to) {

@@ -7,7 +7,7 @@
 #include <filesystem>
 #include <set>
 
-#include "cli/cli_support.h"
+#include "support/temp_dir.h"
 
 using evenhand::testing::Ran;
 using evenhand::testing::run_evenhand;

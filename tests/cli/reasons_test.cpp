@@ -4,7 +4,7 @@
 
 #include <sstream>
 
-#include "cli/cli_support.h"
+#include "support/temp_dir.h"
 
 using evenhand::testing::Ran;
 using evenhand::testing::run_evenhand;

@@ -21,13 +21,14 @@ struct Framed {
   uint64_t blanks = 0;
 };
 
-Framed frame(const std::string& bytes, Framing framing, size_t max = 1 << 20) {
+Framed frame(const std::string& bytes, Framing framing, size_t max = 1 << 20,
+             size_t read_size = RecordReader::kReadSize) {
   TempDir dir;
   std::string path = dir.file("in.txt");
   evenhand::testing::write_file(path, bytes);
   auto src = evenhand::io::Source::open(path);
   REQUIRE(src.ok());
-  RecordReader reader(**src, framing, max);
+  RecordReader reader(**src, framing, max, read_size);
   Framed f;
   RawRecord r;
   for (;;) {
@@ -59,6 +60,23 @@ TEST_CASE("lines keep their terminators and numbers") {
 TEST_CASE("a UTF-8 BOM at the start is dropped, elsewhere kept") {
   auto f = frame("\xEF\xBB\xBFone\n\xEF\xBB\xBFtwo\n", Framing::lines);
   REQUIRE(f.records == std::vector<std::string>{"one", "\xEF\xBB\xBFtwo"});
+}
+
+TEST_CASE("a BOM is dropped also when the reads hand it out byte by byte") {
+  // Found by tests/fuzz/fuzz_records (regressions/records/bom-split-across-reads).
+  for (size_t read_size : {1, 2, 3, 4}) {
+    auto f = frame("\xEF\xBB\xBFone\ntwo", Framing::lines, 1 << 20, read_size);
+    REQUIRE(f.records == std::vector<std::string>{"one", "two"});
+  }
+  auto f = frame("\xEF\xBBx\n", Framing::lines, 1 << 20, 1);
+  REQUIRE(f.records == std::vector<std::string>{"\xEF\xBBx"});
+}
+
+TEST_CASE("a record limit of SIZE_MAX does not wrap around") {
+  // Found by tests/fuzz/fuzz_records (regressions/records/max-record-bytes-overflow).
+  auto f = frame("{\"a\":1}\n{\"b\"", Framing::lines, SIZE_MAX);
+  REQUIRE(f.records == std::vector<std::string>{"{\"a\":1}", "{\"b\""});
+  REQUIRE(f.oversized_lines.empty());
 }
 
 TEST_CASE("empty input has no records") {
