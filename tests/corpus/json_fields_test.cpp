@@ -672,7 +672,7 @@ TEST_CASE("property: random records select, splice and re-parse consistently",
   CHECK(edited > 250);  // the edits were really exercised
 }
 
-TEST_CASE("a selected member name twice in one object is refused; others pass",
+TEST_CASE("a selected member name twice in one object is refused, others pass",
           "[corpus][fields][errors]") {
   // RFC 8259 section 4: names SHOULD be unique; with duplicates readers differ on the value.
   FieldSelector sel(patterns({"/text", "/meta/body"}));
