@@ -136,8 +136,14 @@ size_t check_outputs(const std::string& dir, const Reference& ref) {
 }
 
 // The exit status of a run signalled with `sig`: 128 + sig, or 0 when it finished first.
-void check_status(int status, int sig) {
+// A signal that lands before main() has set its handling up (process start-up is slow under
+// the sanitizers) ends the process by the signal itself: allowed only when it left nothing.
+void check_status(int status, int sig, const std::string& dir) {
   INFO("signal " << sig << ", status " << status);
+  if (WIFSIGNALED(status) && WTERMSIG(status) == sig) {
+    CHECK(std::filesystem::is_empty(dir));
+    return;
+  }
   REQUIRE(WIFEXITED(status));
   CHECK((WEXITSTATUS(status) == 128 + sig || WEXITSTATUS(status) == 0));
 }
@@ -179,7 +185,7 @@ TEST_CASE("a signal at any point of a run leaves every output or none, and no hi
     pid_t pid = start(work, run_args(corpus));
     std::this_thread::sleep_for(std::chrono::duration<double>(at[i] * ref.seconds));
     ::kill(pid, sig);
-    check_status(wait_for(pid), sig);
+    check_status(wait_for(pid), sig, work);
     (check_outputs(work, ref) == 0 ? none : complete) += 1;
     clear_dir(work);
   }
@@ -213,7 +219,7 @@ TEST_CASE("a signal during the renames lets the set complete") {
     ::close(fd);
     REQUIRE(seen);
     ::kill(pid, sig);
-    check_status(wait_for(pid), sig);
+    check_status(wait_for(pid), sig, work);
     CHECK(check_outputs(work, ref) == kFinals.size());
     clear_dir(work);
   }
