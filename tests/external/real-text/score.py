@@ -1,7 +1,7 @@
 #!/usr/bin/env python3
 """Scores evenhand's English pack on the hand-labelled real-text set (GUIDE.md), per half.
 
-usage: score.py [--bin build/evenhand] [--check] [--keep DIR]
+usage: score.py [--bin build/evenhand] [--check] [--keep DIR] [--dev]
 
 Runs `evenhand run --pack en-gender --mode substitute --rate 1` on records.jsonl with an
 audit log, then prints for the development and the held-out half (split.txt):
@@ -12,6 +12,8 @@ audit log, then prints for the development and the held-out half (split.txt):
 - edit precision: applied edits in expected.jsonl records that agree with the expected text
   at their place (same span, same replacement), over all applied edits in those records.
 With --check, exits 1 when a figure of either half is below its floor (FLOORS below).
+With --dev (for tuning), prints the development half only, and lists its wrong name swaps,
+missed persons and records not fully right, so that tuning never shows the held-out half.
 Python standard library only.
 """
 import difflib
@@ -85,7 +87,14 @@ def expected_changes(orig, want):
     return changes
 
 
-def score_half(half, records, outputs, edits, names, expected):
+def context(text, off, width=60):
+    b = text.encode("utf-8")
+    left = b[max(0, off - width):off].decode("utf-8", "replace")
+    right = b[off:off + width].decode("utf-8", "replace")
+    return (left + "[[" + right).replace("\n", " ")
+
+
+def score_half(half, records, outputs, edits, names, expected, errors=None):
     tp = fp = persons = 0
     for rid, off, label in names:
         if records[rid]["half"] != half:
@@ -94,6 +103,9 @@ def score_half(half, records, outputs, edits, names, expected):
         persons += label == "person"
         tp += swapped and label == "person"
         fp += swapped and label == "not_person"
+        if errors is not None and swapped != (label == "person"):
+            kind = "wrong swap" if swapped else "missed    "
+            errors.append(f"{kind} {rid}: {context(records[rid]['text'], off)}")
     right = total = good_edits = all_edits = 0
     for exp in expected:
         rid = exp["id"]
@@ -102,7 +114,10 @@ def score_half(half, records, outputs, edits, names, expected):
         orig = records[rid]["text"]
         want = orig if "flag" in exp else exp["expected"]
         total += 1
-        right += outputs[rid] in [want] + exp.get("alternatives", [])
+        ok = outputs[rid] in [want] + exp.get("alternatives", [])
+        right += ok
+        if errors is not None and not ok:
+            errors.append(f"record     {rid}:\n   got  {outputs[rid]}\n   want {want}")
         changes = expected_changes(orig, want)
         for at, length, to in edits.get(rid, []):
             all_edits += 1
@@ -149,12 +164,16 @@ def main():
     print(f"real-text: {len(records)} records, {len(names)} labelled names "
           f"({unsure} unsure left out), {len(expected)} expected records")
     failed = []
-    for half in ("dev", "held"):
-        s = score_half(half, records, outputs, edits, names, expected)
+    dev_only = "--dev" in args
+    errors = [] if dev_only else None
+    for half in ("dev",) if dev_only else ("dev", "held"):
+        s = score_half(half, records, outputs, edits, names, expected, errors)
         print(f"{half:>4}: name precision {s['precision']:.1%}  recall {s['recall']:.1%}  "
               f"records fully right {s['records']:.1%}  edit precision {s['edit_precision']:.1%}"
               f"  ({s['counts']})")
         failed += [f"{half} {k} {s[k]:.3f} < {v}" for k, v in FLOORS[half].items() if s[k] < v]
+    for line in errors or []:
+        print(line)
     if "--check" in args and failed:
         print("score.py: below floor: " + "; ".join(failed), file=sys.stderr)
         sys.exit(1)
