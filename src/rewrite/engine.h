@@ -108,13 +108,18 @@ std::unique_ptr<Engine> make_identity_engine();
 class PossessiveModel;
 class VerbTable;
 class NounPhraseAgreement;
+namespace en {
+class PersonContext;
+}
 
 // The pack's data files the engine reads, parsed; each is null when the pack has no such file
-// (possessive.model, verbs.data, noun-phrase.data with the three files it needs).
+// (possessive.model, verbs.data, noun-phrase.data with the three files it needs,
+// person-context.data).
 struct EngineData {
   std::shared_ptr<const PossessiveModel> possessive;
   std::shared_ptr<const VerbTable> verbs;
   std::shared_ptr<const NounPhraseAgreement> noun_phrases;
+  std::shared_ptr<const en::PersonContext> persons;
 };
 
 // Runs every loader of the engine's data files on `pack`, each file named in errors by

@@ -3,8 +3,12 @@
 // by the first folded word, longest entry first. Details that the README documents:
 // - A trailing clitic ('s 'd 'll 're 've 'm, straight or curly) on the last word of a match
 //   is kept as written, so "mother's" and "Emily’s" need no entries of their own.
-// - Names are swapped only when written with an upper-case first letter; names that are
-//   also common words (~word in the pack) additionally not at the start of a sentence.
+// - Names are swapped only when written with an upper-case first letter, and only where
+//   they name a person: with the pack's person-context.data, the words around each name
+//   decide (rewrite/en/person_context.h), and within a record a name read as a surname, or
+//   as a person with evidence, is read so at its other places too; without that file, a name
+//   that is also a common word (~word) is not swapped at a sentence start, and a name after a
+//   title or another first name is a surname.
 // - A form with several counterparts (her -> his/him, his -> her/hers) is decided by the
 //   pack's possessive model when it has one, else the pack's first entry wins and the
 //   decision is counted as ambiguous.
@@ -18,6 +22,7 @@
 #include "base/word_hash.h"
 #include "pack/pack.h"
 #include "rewrite/article.h"
+#include "rewrite/en/person_context.h"
 #include "rewrite/engine.h"
 #include "rewrite/np_agreement.h"
 #include "rewrite/possessive.h"
@@ -92,7 +97,7 @@ class WordIndex {
 
 class LexiconWorker final : public Worker {
  public:
-  explicit LexiconWorker(const LexiconEngine& e) : e_(e) {}
+  explicit LexiconWorker(const LexiconEngine& e);
   void rewrite(std::span<const std::string_view> fields, RecordResult& out) override;
   void trim() override;
 
@@ -101,7 +106,14 @@ class LexiconWorker final : public Worker {
     uint32_t begin = 0, end = 0;  // bytes in the field
     uint32_t fold_off = 0, fold_len = 0;
     text::TokenKind kind = text::TokenKind::punct;
+    uint32_t call = kNoCall;           // a listed name's verdict in calls_, if judged
     const WordSlots* slots = nullptr;  // what this folded word starts, if anything
+  };
+  static constexpr uint32_t kNoCall = UINT32_MAX;
+  // The verdict on one occurrence of a listed first name, and the name (folded).
+  struct NameCall {
+    en::NameVerdict verdict;
+    std::string_view name;
   };
   // Fills *cur_ from `field`.
   void prepare_field(std::string_view field);
@@ -123,6 +135,17 @@ class LexiconWorker final : public Worker {
                          std::string_view next_word, RecordResult& out);
   // True when the name at item k follows a title or another first name (so is a surname).
   bool surname_position(size_t k) const;
+  // Whether the name entry `en` at item k, written `original`, names a person here; `why`
+  // gets the evidence when person evidence decided.
+  bool names_person(const pack::LexEntry& en, size_t k, std::string_view original,
+                    std::string_view* why) const;
+  // The single-word name entry a word item holds (also before a clitic), or null.
+  const pack::LexEntry* name_entry(size_t k) const;
+  static bool capitalised(std::string_view original);
+  // Judges every capitalised listed name of the field in *cur_ (person evidence).
+  void judge_names(std::string_view text);
+  // Reads a name the same way at all its places in the record where nothing else decided.
+  void settle_names();
   bool is_protected(uint32_t begin, uint32_t end) const;
   void field_matches(uint32_t field, std::string_view text, RecordResult& out, bool guarded);
 
@@ -147,7 +170,9 @@ class LexiconWorker final : public Worker {
   FieldState* cur_ = nullptr;                 // the field being matched
   std::vector<std::string_view> words_;       // folded items for the possessive model
   std::vector<const pack::LexEntry*> cands_;  // entries matching at one position
-  std::vector<NpToken> np_tokens_;  // items for noun-phrase agreement (packs that have it)
+  std::vector<FieldToken> np_tokens_;  // items for noun-phrase agreement (packs that have it)
+  std::vector<NameCall> calls_;        // the record's judged names (person evidence)
+  en::NameSite site_;                  // reused for every judged name
 };
 
 class LexiconEngine final : public Engine {
@@ -156,12 +181,14 @@ class LexiconEngine final : public Engine {
                 std::unique_ptr<text::ProtectedSpans> ps,
                 std::shared_ptr<const PossessiveModel> model,
                 std::shared_ptr<const VerbTable> verbs,
-                std::shared_ptr<const NounPhraseAgreement> np, const EngineOptions& o)
+                std::shared_ptr<const NounPhraseAgreement> np,
+                std::shared_ptr<const en::PersonContext> persons, const EngineOptions& o)
       : pack_(std::move(p)),
         protect_(std::move(ps)),
         model_(std::move(model)),
         verbs_(std::move(verbs)),
         np_(std::move(np)),
+        persons_(std::move(persons)),
         options_(o) {
     const auto& groups = pack_->groups();
     target_.resize(groups.size());
@@ -193,13 +220,26 @@ class LexiconEngine final : public Engine {
   std::unique_ptr<text::ProtectedSpans> protect_;
   std::shared_ptr<const PossessiveModel> model_;
   std::shared_ptr<const VerbTable> verbs_;
-  std::shared_ptr<const NounPhraseAgreement> np_;  // null unless the pack has noun-phrase.data
+  std::shared_ptr<const NounPhraseAgreement> np_;     // null unless the pack has noun-phrase.data
+  std::shared_ptr<const en::PersonContext> persons_;  // null unless person-context.data
   EngineOptions options_;
   std::vector<uint16_t> target_;
   PhraseIndex guards_;
   PhraseIndex protected_;
   WordIndex words_;
 };
+
+LexiconWorker::LexiconWorker(const LexiconEngine& e) : e_(e) {
+  auto has_entry = [&e](std::string_view w, bool name) {
+    const WordSlots* slots = e.words_.find(w);
+    if (slots == nullptr || slots->lex == nullptr) return false;
+    for (const auto& en : *slots->lex)
+      if (en.is_name == name && en.words.size() == 1) return true;
+    return false;
+  };
+  site_.is_name = [has_entry](std::string_view w) { return has_entry(w, true); };
+  site_.is_person_word = [has_entry](std::string_view w) { return has_entry(w, false); };
+}
 
 // ASCII lower-casing table (identity for every other byte).
 constexpr std::array<char, 256> kAsciiLower = [] {
@@ -361,6 +401,85 @@ bool LexiconWorker::surname_position(size_t k) const {
   return false;
 }
 
+bool LexiconWorker::capitalised(std::string_view original) {
+  text::CasePattern pattern = text::case_pattern(original);
+  return pattern == text::CasePattern::title || pattern == text::CasePattern::upper ||
+         (pattern == text::CasePattern::mixed && original[0] >= 'A' && original[0] <= 'Z');
+}
+
+bool LexiconWorker::names_person(const pack::LexEntry& en, size_t k, std::string_view original,
+                                 std::string_view* why) const {
+  if (!capitalised(original)) return false;
+  if (!e_.persons_) {
+    if (e_.pack_->names()[en.set].word_like && sentence_start(k)) return false;
+    return !surname_position(k);
+  }
+  uint32_t call = cur_->items[k].call;
+  if (call == kNoCall) return false;  // not judged: not a single-word name
+  *why = calls_[call].verdict.why;
+  return calls_[call].verdict.person;
+}
+
+const pack::LexEntry* LexiconWorker::name_entry(size_t k) const {
+  const Item& it = cur_->items[k];
+  if (it.kind != text::TokenKind::word) return nullptr;
+  const std::vector<pack::LexEntry>* entries = it.slots ? it.slots->lex : nullptr;
+  if (entries == nullptr) {
+    std::string_view f = folded(k);
+    size_t apos = f.rfind('\'');
+    if (apos == f.npos || apos == 0 || f.size() - apos > 3) return nullptr;
+    const WordSlots* stem = e_.words_.find(f.substr(0, apos));
+    entries = stem ? stem->lex : nullptr;
+    if (entries == nullptr) return nullptr;
+  }
+  for (const auto& en : *entries)
+    if (en.is_name && en.words.size() == 1) return &en;
+  return nullptr;
+}
+
+void LexiconWorker::judge_names(std::string_view text) {
+  std::vector<Item>& items = cur_->items;
+  np_tokens_.clear();
+  for (size_t k = 0; k < items.size(); ++k) {
+    items[k].call = kNoCall;
+    const pack::LexEntry* en = name_entry(k);
+    if (en == nullptr) continue;
+    std::string_view name = folded(k);
+    name = name.substr(0, en->words[0].size());
+    if (!capitalised(text.substr(items[k].begin, name.size()))) continue;
+    if (np_tokens_.empty()) {
+      for (size_t j = 0; j < items.size(); ++j)
+        np_tokens_.push_back(
+            {items[j].begin, items[j].end, folded(j), items[j].kind == text::TokenKind::word});
+    }
+    site_.tokens = np_tokens_;
+    site_.text = text;
+    site_.at = k;
+    site_.word_like = e_.pack_->names()[en->set].word_like;
+    items[k].call = static_cast<uint32_t>(calls_.size());
+    calls_.push_back({en::judge_name(*e_.persons_, site_), name});
+  }
+}
+
+void LexiconWorker::settle_names() {
+  std::vector<std::string_view> surnames, persons;
+  for (const NameCall& c : calls_) {
+    if (c.verdict.surname) surnames.push_back(c.name);
+    if (c.verdict.person && c.verdict.evidence != en::Evidence::none) persons.push_back(c.name);
+  }
+  auto in = [](const std::vector<std::string_view>& v, std::string_view w) {
+    return std::find(v.begin(), v.end(), w) != v.end();
+  };
+  for (NameCall& c : calls_) {
+    if (c.verdict.evidence == en::Evidence::firm) continue;
+    if (in(surnames, c.name)) {
+      c.verdict = {false, en::Evidence::none, true, "a surname elsewhere in the record"};
+    } else if (c.verdict.evidence == en::Evidence::none && in(persons, c.name)) {
+      c.verdict = {true, en::Evidence::none, false, "names a person elsewhere in the record"};
+    }
+  }
+}
+
 bool LexiconWorker::is_protected(uint32_t begin, uint32_t end) const {
   for (const auto& s : cur_->spans) {
     if (s.begin >= end) break;
@@ -447,15 +566,8 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
       continue;
     }
     std::string_view original = text.substr(begin, end - begin);
-    text::CasePattern pattern = text::case_pattern(original);
-    if (first->is_name) {
-      bool capital =
-          pattern == text::CasePattern::title || pattern == text::CasePattern::upper ||
-          (pattern == text::CasePattern::mixed && original[0] >= 'A' && original[0] <= 'Z');
-      if (!capital) continue;
-      if (pk.names()[first->set].word_like && sentence_start(k)) continue;
-      if (surname_position(k)) continue;
-    }
+    std::string_view name_note;
+    if (first->is_name && !names_person(*first, k, original, &name_note)) continue;
     uint16_t g = first->group;
     bool one_group = true;
     for (const auto* c : cands) one_group = one_group && c->group == g;
@@ -518,6 +630,7 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
         chosen->is_name ? static_cast<uint32_t>(pk.sets().size() + chosen->set) : chosen->set;
     ed.rule = chosen->is_name ? &pk.names()[chosen->set].where : &pk.sets()[chosen->set].where;
     ed.hit = hit;
+    ed.note = name_note;
     if (ed.replacement != original) {
       article_agreement(field, text, k, ed.replacement, out);
       bool plural_subject = e_.verbs_ && chosen->tag == pack::Tag::subj && replacement == "they" &&
@@ -657,9 +770,24 @@ void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResu
   if (fields_.size() < states) fields_.resize(states);
   const pack::Guard* guard = find_guard(fields, keep);
   out.guard = guard;
+  // Names are judged over the whole record when its fields are kept, else field by field.
+  calls_.clear();
+  const bool judge = e_.persons_ != nullptr;
+  if (judge && keep) {
+    for (uint32_t f = 0; f < fields.size(); ++f) {
+      cur_ = &fields_[f];
+      judge_names(fields[f]);
+    }
+    settle_names();
+  }
   for (uint32_t f = 0; f < fields.size(); ++f) {
     cur_ = &fields_[keep ? f : 0];
     if (!keep) prepare_field(fields[f]);
+    if (judge && !keep) {
+      calls_.clear();
+      judge_names(fields[f]);
+      settle_names();
+    }
     words_.clear();
     field_matches(f, fields[f], out, guard != nullptr);
   }
@@ -672,6 +800,7 @@ void LexiconWorker::trim() {
   words_ = {};
   cands_ = {};
   np_tokens_ = {};
+  calls_ = {};
   cur_ = nullptr;
 }
 
@@ -691,6 +820,8 @@ Result<EngineData> load_engine_data(const std::shared_ptr<const pack::CompiledPa
     take(PossessiveModel::parse(*text, pack->file_path(kPossessiveModelFile)), data.possessive);
   if (pack->file(kVerbsFile)) take(VerbTable::from_pack(*pack), data.verbs);
   if (pack->file(kNounPhraseFile)) take(NounPhraseAgreement::from_pack(pack), data.noun_phrases);
+  if (const std::string* text = pack->file(en::kPersonContextFile))
+    take(en::PersonContext::parse(*text, pack->file_path(en::kPersonContextFile)), data.persons);
   if (problems.size() > first) return problems[first];
   return data;
 }
@@ -704,7 +835,7 @@ Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::Compiled
   }
   return std::unique_ptr<Engine>(std::make_unique<LexiconEngine>(
       std::move(pack), std::move(*ps), std::move(data.possessive), std::move(data.verbs),
-      std::move(data.noun_phrases), options));
+      std::move(data.noun_phrases), std::move(data.persons), options));
 }
 
 Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::CompiledPack> pack,

@@ -17,16 +17,12 @@
 #include "base/status.h"
 #include "pack/pack.h"
 #include "rewrite/engine.h"
+#include "rewrite/field_tokens.h"
 #include "text/protect.h"
 
 namespace evenhand::rewrite {
 
 // One non-space token of a field, as the engine cut and folded it.
-struct NpToken {
-  uint32_t begin = 0, end = 0;  // bytes in the field
-  std::string_view folded;      // pack::fold_word of the token
-  bool word = false;            // a word (not punctuation)
-};
 
 // The data file whose presence switches noun-phrase agreement on.
 inline constexpr const char* kNounPhraseFile = "noun-phrase.data";
@@ -85,7 +81,7 @@ class NounPhraseAgreement {
   struct Field {
     uint32_t index = 0;
     std::string_view text;
-    std::span<const NpToken> tokens;
+    std::span<const FieldToken> tokens;
     std::span<const text::Span> spans;
     std::span<const uint16_t> target;
     bool guarded = false;  // count mentions only, make no edits

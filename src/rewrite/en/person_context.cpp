@@ -1,0 +1,328 @@
+// English person evidence (see person_context.h). The rules, in the order they are tried:
+// 1. Negative evidence from the words around: the name opens a multi-word name of a thing
+//    ("Hope Street", "Bell Labs"), follows a place prefix ("San", "New") or an article, stands
+//    after a title with no name after it (a surname: "Dr. Grace"), after an initial or after
+//    another capitalised word inside a sentence (a surname or part of a longer name), after
+//    "X of" ("Bank of Virginia"), or before a subject pronoun or a number ("Will you", "Win 98").
+// 2. Positive evidence: a form of address before it ("Aunt", "Dear"), a title and a surname
+//    around it, a surname-like capitalised word after it, a verb of speech or action after it,
+//    a person word before it ("my brother Jack"), "who" after it, a vocative at a line start.
+// 3. Otherwise the default: a person, unless the name is also a common word or a thing's name.
+#include "rewrite/en/person_context.h"
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "text/case.h"
+
+namespace evenhand::rewrite::en {
+
+namespace {
+
+constexpr std::string_view kFormatLine = "format evenhand-person-context 1";
+
+struct KindName {
+  std::string_view name;
+  Lexicon list;
+};
+constexpr KindName kKinds[] = {
+    {"thing-head", Lexicon::thing_head},
+    {"thing-name", Lexicon::thing_name},
+    {"surname", Lexicon::surname},
+    {"person-verb", Lexicon::person_verb},
+    {"title", Lexicon::title},
+    {"given-title", Lexicon::given_title},
+    {"place-prefix", Lexicon::place_prefix},
+    {"greeting", Lexicon::greeting},
+    {"word-name", Lexicon::word_name},
+    {"common-word", Lexicon::common_word},
+    {"proper-thing", Lexicon::proper_thing},
+};
+
+bool valid_word(std::string_view w) {
+  if (w.empty()) return false;
+  for (unsigned char c : w)
+    if (c <= ' ' || (c >= 'A' && c <= 'Z')) return false;
+  return true;
+}
+
+}  // namespace
+
+Result<std::shared_ptr<const PersonContext>> PersonContext::parse(std::string_view text,
+                                                                  const std::string& file) {
+  auto ctx = std::make_shared<PersonContext>();
+  uint64_t line_no = 0;
+  bool have_format = false;
+  auto fail = [&](std::string reason) {
+    Error e = make_error(ErrorKind::pack, file, std::move(reason));
+    if (line_no) e.line = line_no;
+    return e;
+  };
+  size_t pos = 0;
+  while (pos < text.size()) {
+    size_t end = text.find('\n', pos);
+    std::string_view line = text.substr(pos, end == text.npos ? text.npos : end - pos);
+    pos = end == text.npos ? text.size() : end + 1;
+    ++line_no;
+    if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
+    if (line.empty() || line[0] == '#') continue;
+    if (!have_format) {
+      if (line != kFormatLine)
+        return fail("the first record must be '" + std::string(kFormatLine) + "'");
+      have_format = true;
+      continue;
+    }
+    size_t space = line.find(' ');
+    std::string_view kind = line.substr(0, space);
+    std::string_view word = space == line.npos ? std::string_view() : line.substr(space + 1);
+    const KindName* k = nullptr;
+    for (const auto& kn : kKinds)
+      if (kn.name == kind) k = &kn;
+    if (k == nullptr) return fail("unknown kind '" + std::string(kind) + "'");
+    if (!valid_word(word))
+      return fail("'" + std::string(word) + "' is not one lower-case word without spaces");
+    ctx->lists_[static_cast<size_t>(k->list)].emplace(word);
+  }
+  if (!have_format) return fail("empty: no '" + std::string(kFormatLine) + "' line");
+  return std::shared_ptr<const PersonContext>(std::move(ctx));
+}
+
+bool PersonContext::has(Lexicon list, std::string_view folded) const {
+  const WordSet& s = lists_[static_cast<size_t>(list)];
+  return s.find(folded) != s.end();
+}
+
+namespace {
+
+// The tokens around the name, read with the lexicons.
+class Around {
+ public:
+  Around(const PersonContext& lex, const NameSite& s) : lex_(lex), s_(s) {}
+
+  size_t size() const { return s_.tokens.size(); }
+  bool word(size_t j) const { return j < size() && s_.tokens[j].word; }
+  std::string_view f(size_t j) const { return s_.tokens[j].folded; }
+  bool is(size_t j, std::string_view w) const { return j < size() && f(j) == w; }
+  bool has(Lexicon l, size_t j) const { return word(j) && lex_.has(l, f(j)); }
+  std::string_view raw(size_t j) const {
+    return s_.text.substr(s_.tokens[j].begin, s_.tokens[j].end - s_.tokens[j].begin);
+  }
+  // Starts with an upper-case letter (ASCII, or any non-ASCII letter: best effort).
+  bool capital(size_t j) const {
+    if (!word(j)) return false;
+    unsigned char c = static_cast<unsigned char>(raw(j)[0]);
+    return (c >= 'A' && c <= 'Z') || (c >= 0x80 && f(j) != raw(j));
+  }
+  // Tokens a < b with only spaces or tabs between them (same line, nothing else).
+  bool adjacent(size_t a, size_t b) const {
+    if (b != a + 1 || b >= size()) return false;
+    for (uint32_t i = s_.tokens[a].end; i < s_.tokens[b].begin; ++i)
+      if (s_.text[i] != ' ' && s_.text[i] != '\t') return false;
+    return true;
+  }
+  bool newline_before(size_t j) const {
+    uint32_t from = j == 0 ? 0 : s_.tokens[j - 1].end;
+    for (uint32_t i = from; i < s_.tokens[j].begin; ++i)
+      if (s_.text[i] == '\n') return true;
+    return j == 0;
+  }
+  // First on its line, after quote markers, bullets and a chat label ("> ", "* ", "<nick> ").
+  bool line_start(size_t j) const {
+    while (!newline_before(j)) {
+      if (after_chat_label(j)) return true;
+      std::string_view p = f(j - 1);
+      if (p != ">" && p != "|" && p != "*" && p != "-" && p != "_" && p != "#") return false;
+      --j;
+    }
+    return true;
+  }
+  // A full stop that ends an abbreviation or an initial, not a sentence ("Mr.", "J.").
+  bool abbreviation_stop(size_t j) const {
+    if (!is(j, ".") || j == 0 || !word(j - 1) || !adjacent_any(j - 1, j)) return false;
+    return f(j - 1).size() == 1 || has(Lexicon::title, j - 1) || has(Lexicon::given_title, j - 1) ||
+           has(Lexicon::place_prefix, j - 1);
+  }
+  bool sentence_start(size_t j) const {
+    if (line_start(j)) return true;
+    size_t p = j - 1;
+    while (p > 0 && (f(p) == "*" || f(p) == "_" || f(p) == "(" || f(p) == "\"" ||
+                     f(p) == "\xE2\x80\x9C" || f(p) == "'" || f(p) == "\xE2\x80\x98")) {
+      if (line_start(p)) return true;
+      --p;
+    }
+    std::string_view q = f(p);
+    if (q == "!" || q == "?" || q == ":" || q == ";" || q == "\xE2\x80\xA6") return true;
+    return q == "." && !abbreviation_stop(p);
+  }
+  // A middle initial: one capital letter and a full stop ("M.").
+  bool initial(size_t j) const {
+    return word(j) && raw(j).size() == 1 && capital(j) && is(j + 1, ".");
+  }
+  // "<nick> NAME" (a chat line) and "<NAME>" (the speaker).
+  bool after_chat_label(size_t j) const { return j >= 3 && is(j - 1, ">") && is(j - 3, "<"); }
+  bool chat_label(size_t j) const { return j >= 1 && is(j - 1, "<") && is(j + 1, ">"); }
+  // Two or more letters, all upper case ("ELIZA", "ANN").
+  bool all_caps(size_t j) const {
+    return word(j) && raw(j).size() >= 2 && text::case_pattern(raw(j)) == text::CasePattern::upper;
+  }
+  // The nearest word before or after `j` on its line is in capitals too (a heading, a shout).
+  bool all_caps_around(size_t j) const {
+    for (size_t i = j; i-- > 0 && !newline_before(i + 1);)
+      if (word(i)) return all_caps(i);
+    for (size_t i = j + 1; i < size() && !newline_before(i); ++i)
+      if (word(i)) return all_caps(i);
+    return false;
+  }
+  // Sentence-final punctuation, a closing quote or the end of the line at `j`.
+  bool closes_sentence(size_t j) const {
+    if (j >= size() || newline_before(j)) return true;
+    std::string_view q = f(j);
+    return q == "." || q == "!" || q == "?" || q == "\"" || q == "\xE2\x80\x9D";
+  }
+  // The token after a possessive name ("Lucas' Law", "Sanford's Run") when it follows on the
+  // same line after spaces; SIZE_MAX when the name is not possessive.
+  size_t after_possessive(size_t k) const {
+    std::string_view w = f(k);
+    size_t next = SIZE_MAX;
+    if (w.size() > 2 && (w.ends_with("'s") || w.ends_with("\xE2\x80\x99s"))) next = k + 1;
+    if (is(k + 1, "'") && s_.tokens[k].end == s_.tokens[k + 1].begin) next = k + 2;
+    return next != SIZE_MAX && adjacent(next - 1, next) ? next : SIZE_MAX;
+  }
+  // The word before `j`, skipping one abbreviation stop ("Mr. Grace"); SIZE_MAX if none.
+  size_t word_before(size_t j) const {
+    if (j == 0 || newline_before(j)) return SIZE_MAX;
+    size_t p = j - 1;
+    if (abbreviation_stop(p)) return p;  // caller reads p - 1 as the word
+    return word(p) && adjacent(p, j) ? p : SIZE_MAX;
+  }
+
+ private:
+  bool adjacent_any(size_t a, size_t b) const {
+    return b == a + 1 && s_.tokens[a].end == s_.tokens[b].begin;
+  }
+  const PersonContext& lex_;
+  const NameSite& s_;
+};
+
+NameVerdict yes(const char* why, Evidence e = Evidence::firm) {
+  return {true, e, false, why};
+}
+NameVerdict no(const char* why, Evidence e = Evidence::firm) {
+  return {false, e, false, why};
+}
+NameVerdict surname(const char* why) {
+  return {false, Evidence::firm, true, why};
+}
+
+bool is_subject_pronoun(std::string_view w) {
+  return w == "i" || w == "you" || w == "we" || w == "they" || w == "he" || w == "she" || w == "it";
+}
+
+// The name is a common word too: the pack's per-name list when it has one, else the pair's
+// ~word mark.
+bool word_like(const Around& a, const PersonContext& lex, const NameSite& s) {
+  if (lex.size(Lexicon::word_name) > 0) return a.has(Lexicon::word_name, s.at);
+  return s.word_like;
+}
+
+// How surely the capitalised word after the name (on its line) is a surname: firm when the
+// surname list holds it; some when it is no common word and no thing's name; else none.
+Evidence surname_after(const Around& a, size_t k) {
+  size_t n = k + 1;
+  if (!a.adjacent(k, n) || !a.capital(n) || a.has(Lexicon::thing_head, n)) return Evidence::none;
+  if (is_subject_pronoun(a.f(n)) || a.all_caps(n) != a.all_caps(k)) return Evidence::none;
+  if (a.has(Lexicon::surname, n) || a.initial(n)) return Evidence::firm;
+  for (Lexicon l : {Lexicon::thing_name, Lexicon::common_word, Lexicon::proper_thing})
+    if (a.has(l, n)) return Evidence::none;
+  return Evidence::some;
+}
+
+// Rule 1, the part that looks right of the name.
+std::optional<NameVerdict> thing_after(const Around& a, size_t k) {
+  size_t j = k + 1;
+  for (; j < k + 5 && a.adjacent(j - 1, j) && a.capital(j); ++j)
+    if (a.has(Lexicon::thing_head, j)) return no("part of a place or organisation's name");
+  if (a.is(j, "&") && j > k + 1) return no("part of a firm's name");
+  if (a.adjacent(k, k + 1) && is_subject_pronoun(a.f(k + 1)))
+    return no("a verb before a subject pronoun");
+  if (k + 1 < a.size() && a.adjacent(k, k + 1) && !a.word(k + 1) && a.raw(k + 1)[0] >= '0' &&
+      a.raw(k + 1)[0] <= '9')
+    return no("followed by a number: a product or version");
+  size_t after = a.after_possessive(k);
+  if (after != SIZE_MAX && a.capital(after)) return no("a possessive inside a longer name");
+  return std::nullopt;
+}
+
+// Rules 1 and 2 for the word before the name.
+std::optional<NameVerdict> judge_before(const Around& a, const NameSite& s, size_t k) {
+  if (a.chat_label(k)) return yes("a chat speaker's label");
+  size_t p = a.word_before(k);
+  if (p == SIZE_MAX) return std::nullopt;
+  bool stop = a.is(p, ".");
+  if (stop) p = p - 1;
+  Evidence first = surname_after(a, k);
+  if (a.has(Lexicon::given_title, p) || (!stop && a.has(Lexicon::greeting, p)))
+    return yes("after a form of address");
+  if (a.has(Lexicon::title, p))
+    return first != Evidence::none ? yes("first name after a title")
+                                   : surname("surname after a title");
+  if (a.has(Lexicon::place_prefix, p) && a.capital(p)) return no("after a place prefix");
+  if (!stop && (a.f(p) == "the" || a.f(p) == "a" || a.f(p) == "an")) return no("after an article");
+  if (stop && a.f(p).size() == 1)
+    return first != Evidence::none ? yes("first name after an initial")
+                                   : surname("surname after an initial");
+  if (!stop && s.is_person_word && s.is_person_word(a.f(p)) && !a.capital(p))
+    return yes("after a person word");
+  if (stop || !a.capital(p)) return std::nullopt;
+  if (s.is_name && s.is_name(a.f(p)))
+    return first != Evidence::none ? yes("middle name") : surname("surname after a first name");
+  if (a.sentence_start(p)) return std::nullopt;
+  if (first != Evidence::none) return yes("first name after a capitalised word", first);
+  return surname("after a capitalised word: surname or part of a longer name");
+}
+
+// Rule 2 for the words after the name.
+std::optional<NameVerdict> judge_after(const Around& a, const NameSite& s, size_t k, bool common) {
+  Evidence e = surname_after(a, k);
+  if (e != Evidence::none) return yes("a surname follows", e);
+  size_t n = k + 1;
+  if (n < a.size() && a.f(n) == ",") ++n;
+  if (a.has(Lexicon::person_verb, n) || a.is(n, "who"))
+    return yes("a verb of speech or action follows", Evidence::some);
+  auto joined = [&](size_t j) {
+    return a.is(j, "i") || a.is(j, "me") ||
+           (a.capital(j) && s.is_name && s.is_name(a.f(j)) && !a.has(Lexicon::word_name, j));
+  };
+  if (a.is(k + 1, "and") && joined(k + 2)) return yes("joined to another person");
+  if (a.is(k + 1, "(") && (a.is(k + 2, "a") || a.is(k + 2, "an") || a.is(k + 2, "the")))
+    return yes("a description in brackets follows", Evidence::some);
+  if (common && a.adjacent(k, k + 1) && a.capital(k + 1) && a.has(Lexicon::common_word, k + 1))
+    return no("a capitalised common word follows: a title or a thing's name", Evidence::some);
+  if (k >= 2 && a.is(k - 1, "and") && joined(k - 2)) return yes("joined to another person");
+  if (a.is(k + 1, ",") && a.line_start(k) && !common) return yes("addressed at a line start");
+  if ((a.is(k + 1, ",") || a.is(k + 1, ":")) && a.after_chat_label(k)) return yes("addressed");
+  if (k > 0 && a.is(k - 1, ",") && a.closes_sentence(k + 1)) return yes("addressed");
+  return std::nullopt;
+}
+
+}  // namespace
+
+NameVerdict judge_name(const PersonContext& lexicons, const NameSite& site) {
+  Around a(lexicons, site);
+  const size_t k = site.at;
+  const bool common = word_like(a, lexicons, site);
+  if (a.all_caps(k) && !a.all_caps_around(k)) return no("written in capitals: an acronym");
+  if (auto v = thing_after(a, k)) return *v;
+  if (auto v = judge_before(a, site, k)) return *v;
+  size_t p = a.word_before(k);
+  if (p != SIZE_MAX && p >= 2 && a.f(p) == "of" && a.capital(p - 1) && !a.sentence_start(p - 1))
+    return no("after 'X of': part of a longer name");
+  if (auto v = judge_after(a, site, k, common)) return *v;
+  if (common) return no("also a common word, and nothing says it names a person", Evidence::none);
+  if (lexicons.has(Lexicon::thing_name, a.f(k)))
+    return no("also a place's or thing's name, and nothing says it names a person", Evidence::none);
+  return yes("a first name", Evidence::none);
+}
+
+}  // namespace evenhand::rewrite::en
