@@ -34,6 +34,7 @@ void RecordResult::clear() {
   ambiguous = 0;
   entry_hits.clear();
   flags.clear();
+  mentions.clear();
 }
 
 void keep_edits_apart(RecordResult& out) {

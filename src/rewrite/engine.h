@@ -60,7 +60,20 @@ struct RecordResult {
     std::string detail;
   };
   std::vector<Flag> flags;
+  // Every mention counted in `before`, in order, when the caller sets `list_mentions` (the
+  // association audit counts the same mentions as the engine; a run does not need them).
+  struct Mention {
+    uint32_t field = 0, begin = 0, end = 0;  // decoded byte range in the field
+    uint16_t group = 0;                      // as read
+  };
+  std::vector<Mention> mentions;
+  bool list_mentions = false;  // set by the caller; clear() keeps it
 
+  // Counts a mention of group g as read (and lists it when list_mentions is set).
+  void count_mention(uint16_t g, uint32_t field, uint32_t begin, uint32_t end) {
+    ++before[g];
+    if (list_mentions) mentions.push_back({field, begin, end, g});
+  }
   bool has_mentions() const;
   void clear();
 };

@@ -576,7 +576,7 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
       k = next;
       continue;
     }
-    ++out.before[g];
+    out.count_mention(g, field, begin, end);
     uint16_t t = e_.target_[g];
     auto form_of = [&](const pack::LexEntry* en) -> const std::string& {
       return en->is_name ? pk.names()[en->set].names[t] : pk.sets()[en->set].forms[t];

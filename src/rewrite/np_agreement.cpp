@@ -823,7 +823,7 @@ struct NounPhraseAgreement::Worker {
     if (en.tag == pack::Tag::noun && l.dets.empty() && !(k > 0 && t.in(t.copula_, fold(k - 1))))
       return;
 
-    ++out.before[g];
+    out.count_mention(g, in.index, in.tokens[k].begin, in.tokens[k + len - 1].end);
     uint16_t tg = in.target[g];
     const std::string& to_form =
         en.is_name ? pk.names()[en.set].names[tg] : pk.sets()[en.set].forms[tg];
@@ -866,7 +866,7 @@ struct NounPhraseAgreement::Worker {
     }
     if (!g) return;  // "estudiantes", "mi colega": the gender is not shown
     uint16_t grp = group_of(*g);
-    ++out.before[grp];
+    out.count_mention(grp, in.index, in.tokens[k].begin, in.tokens[k].end);
     uint16_t tg = in.target[grp];
     auto to = gender_of(tg);
     if (in.guarded || tg == grp || !to) {
