@@ -76,6 +76,7 @@ struct WordSlots {
   const std::vector<pack::LexEntry>* lex = nullptr;
   const std::vector<PhraseIndex::Phrase>* guard = nullptr;
   const std::vector<PhraseIndex::Phrase>* prot = nullptr;
+  bool mixed_name = false;  // a first name both sexes carry (person evidence)
 };
 
 // Folded word -> WordSlots in a flat table (whose filter turns most tokens, which are in no
@@ -146,6 +147,13 @@ class LexiconWorker final : public Worker {
   void judge_names(std::string_view text);
   // Reads a name the same way at all its places in the record where nothing else decided.
   void settle_names();
+  // Notes a person whose sex the pack cannot change at item k (a name both sexes carry, an
+  // unknown first name after a gendered title), in unswappable_.
+  void note_unswappable(std::string_view text, size_t k);
+  // Fills site_ with the tokens of the field in *cur_ (once per judge_names() call).
+  void prepare_site(std::string_view text);
+  // Flags the record when it names such a person and other mentions were rewritten.
+  void flag_unswappable(RecordResult& out) const;
   bool is_protected(uint32_t begin, uint32_t end) const;
   void field_matches(uint32_t field, std::string_view text, RecordResult& out, bool guarded);
 
@@ -172,6 +180,7 @@ class LexiconWorker final : public Worker {
   std::vector<const pack::LexEntry*> cands_;  // entries matching at one position
   std::vector<FieldToken> np_tokens_;  // items for noun-phrase agreement (packs that have it)
   std::vector<NameCall> calls_;        // the record's judged names (person evidence)
+  std::string unswappable_;            // the first person the pack cannot swap, as written
   en::NameSite site_;                  // reused for every judged name
 };
 
@@ -209,6 +218,8 @@ class LexiconEngine final : public Engine {
     for (std::string_view key : pack_->keys()) words_[std::string(key)].lex = pack_->lookup(key);
     for (const auto& [key, v] : guards_.by_first) words_[key].guard = &v;
     for (const auto& [key, v] : protected_.by_first) words_[key].prot = &v;
+    if (persons_)
+      for (const auto& w : persons_->words(en::Lexicon::mixed_name)) words_[w].mixed_name = true;
     words_.freeze();
   }
   const pack::CompiledPack* pack() const override { return pack_.get(); }
@@ -443,21 +454,66 @@ void LexiconWorker::judge_names(std::string_view text) {
   for (size_t k = 0; k < items.size(); ++k) {
     items[k].call = kNoCall;
     const pack::LexEntry* en = name_entry(k);
-    if (en == nullptr) continue;
+    if (en == nullptr) {
+      if (unswappable_.empty() && items[k].slots) note_unswappable(text, k);
+      continue;
+    }
     std::string_view name = folded(k);
     name = name.substr(0, en->words[0].size());
     if (!capitalised(text.substr(items[k].begin, name.size()))) continue;
-    if (np_tokens_.empty()) {
-      for (size_t j = 0; j < items.size(); ++j)
-        np_tokens_.push_back(
-            {items[j].begin, items[j].end, folded(j), items[j].kind == text::TokenKind::word});
-    }
-    site_.tokens = np_tokens_;
-    site_.text = text;
+    prepare_site(text);
     site_.at = k;
     site_.word_like = e_.pack_->names()[en->set].word_like;
     items[k].call = static_cast<uint32_t>(calls_.size());
     calls_.push_back({en::judge_name(*e_.persons_, site_), name});
+  }
+}
+
+void LexiconWorker::prepare_site(std::string_view text) {
+  if (!np_tokens_.empty()) return;  // judge_names() clears it for each field
+  np_tokens_.clear();
+  const std::vector<Item>& items = cur_->items;
+  for (size_t j = 0; j < items.size(); ++j)
+    np_tokens_.push_back(
+        {items[j].begin, items[j].end, folded(j), items[j].kind == text::TokenKind::word});
+  site_.tokens = np_tokens_;
+  site_.text = text;
+}
+
+void LexiconWorker::note_unswappable(std::string_view text, size_t k) {
+  const std::vector<Item>& items = cur_->items;
+  const en::PersonContext& lex = *e_.persons_;
+  auto raw = [&](size_t j) { return text.substr(items[j].begin, items[j].end - items[j].begin); };
+  auto cap_word = [&](size_t j) {
+    return j < items.size() && items[j].kind == text::TokenKind::word && capitalised(raw(j));
+  };
+  if (!cap_word(k)) return;
+  if (items[k].slots->mixed_name) {
+    prepare_site(text);
+    site_.at = k;
+    site_.word_like = false;
+    if (en::judge_name(lex, site_).person)
+      unswappable_ = std::string(raw(k)) + "' is a first name both sexes carry";
+    return;
+  }
+  // "Mrs. Kimberlee Jones": a gendered title, an unlisted first name, a surname.
+  bool titled = items[k].slots->lex && (lex.has(en::Lexicon::title, folded(k)) ||
+                                        lex.has(en::Lexicon::given_title, folded(k)));
+  size_t n = k + 1 < items.size() && folded(k + 1) == "." ? k + 2 : k + 1;
+  if (!titled || !cap_word(n) || !cap_word(n + 1) || name_entry(n) != nullptr) return;
+  if (lex.has(en::Lexicon::common_word, folded(n)) || lex.has(en::Lexicon::surname, folded(n)))
+    return;
+  unswappable_ = std::string(raw(n)) + "' after '" + std::string(raw(k)) +
+                 "' is a first name the pack does not list";
+}
+
+void LexiconWorker::flag_unswappable(RecordResult& out) const {
+  if (unswappable_.empty()) return;
+  for (const Edit& e : out.edits) {
+    if (e.from_group != Edit::kNone && e.from_group != e.to_group) {
+      out.flags.push_back({"unswappable_person", "'" + unswappable_});
+      return;
+    }
   }
 }
 
@@ -772,6 +828,7 @@ void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResu
   out.guard = guard;
   // Names are judged over the whole record when its fields are kept, else field by field.
   calls_.clear();
+  unswappable_.clear();
   const bool judge = e_.persons_ != nullptr;
   if (judge && keep) {
     for (uint32_t f = 0; f < fields.size(); ++f) {
@@ -792,6 +849,7 @@ void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResu
     field_matches(f, fields[f], out, guard != nullptr);
   }
   keep_edits_apart(out);
+  flag_unswappable(out);
 }
 
 void LexiconWorker::trim() {
@@ -820,8 +878,7 @@ Result<EngineData> load_engine_data(const std::shared_ptr<const pack::CompiledPa
     take(PossessiveModel::parse(*text, pack->file_path(kPossessiveModelFile)), data.possessive);
   if (pack->file(kVerbsFile)) take(VerbTable::from_pack(*pack), data.verbs);
   if (pack->file(kNounPhraseFile)) take(NounPhraseAgreement::from_pack(pack), data.noun_phrases);
-  if (const std::string* text = pack->file(en::kPersonContextFile))
-    take(en::PersonContext::parse(*text, pack->file_path(en::kPersonContextFile)), data.persons);
+  if (pack->file(en::kPersonContextFile)) take(en::PersonContext::from_pack(*pack), data.persons);
   if (problems.size() > first) return problems[first];
   return data;
 }

@@ -21,6 +21,7 @@ namespace evenhand::rewrite::en {
 namespace {
 
 constexpr std::string_view kFormatLine = "format evenhand-person-context 1";
+constexpr std::string_view kMixedFormatLine = "format evenhand-mixed-names 1";
 
 struct KindName {
   std::string_view name;
@@ -47,11 +48,11 @@ bool valid_word(std::string_view w) {
   return true;
 }
 
-}  // namespace
-
-Result<std::shared_ptr<const PersonContext>> PersonContext::parse(std::string_view text,
-                                                                  const std::string& file) {
-  auto ctx = std::make_shared<PersonContext>();
+// Reads the records of a data file that opens with `format`: calls `take` with each line that
+// is not empty or a comment; `take` returns a reason to stop with an error naming the line.
+template <typename Take>
+std::optional<Error> read_records(std::string_view text, const std::string& file,
+                                  std::string_view format, Take take) {
   uint64_t line_no = 0;
   bool have_format = false;
   auto fail = [&](std::string reason) {
@@ -59,32 +60,68 @@ Result<std::shared_ptr<const PersonContext>> PersonContext::parse(std::string_vi
     if (line_no) e.line = line_no;
     return e;
   };
-  size_t pos = 0;
-  while (pos < text.size()) {
+  for (size_t pos = 0; pos < text.size();) {
     size_t end = text.find('\n', pos);
     std::string_view line = text.substr(pos, end == text.npos ? text.npos : end - pos);
     pos = end == text.npos ? text.size() : end + 1;
     ++line_no;
     if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
     if (line.empty() || line[0] == '#') continue;
+    if (!have_format && line != format)
+      return fail("the first record must be '" + std::string(format) + "'");
     if (!have_format) {
-      if (line != kFormatLine)
-        return fail("the first record must be '" + std::string(kFormatLine) + "'");
       have_format = true;
       continue;
     }
+    if (std::string reason = take(line); !reason.empty()) return fail(std::move(reason));
+  }
+  if (!have_format) {
+    line_no = 0;
+    return fail("empty: no '" + std::string(format) + "' line");
+  }
+  return std::nullopt;
+}
+
+}  // namespace
+
+Result<std::shared_ptr<const PersonContext>> PersonContext::parse(std::string_view text,
+                                                                  const std::string& file) {
+  auto ctx = std::make_shared<PersonContext>();
+  auto error = read_records(text, file, kFormatLine, [&](std::string_view line) -> std::string {
     size_t space = line.find(' ');
     std::string_view kind = line.substr(0, space);
     std::string_view word = space == line.npos ? std::string_view() : line.substr(space + 1);
     const KindName* k = nullptr;
     for (const auto& kn : kKinds)
       if (kn.name == kind) k = &kn;
-    if (k == nullptr) return fail("unknown kind '" + std::string(kind) + "'");
+    if (k == nullptr) return "unknown kind '" + std::string(kind) + "'";
     if (!valid_word(word))
-      return fail("'" + std::string(word) + "' is not one lower-case word without spaces");
+      return "'" + std::string(word) + "' is not one lower-case word without spaces";
     ctx->lists_[static_cast<size_t>(k->list)].emplace(word);
-  }
-  if (!have_format) return fail("empty: no '" + std::string(kFormatLine) + "' line");
+    return "";
+  });
+  if (error) return *error;
+  return std::shared_ptr<const PersonContext>(std::move(ctx));
+}
+
+Result<std::shared_ptr<const PersonContext>> PersonContext::from_pack(
+    const pack::CompiledPack& pack) {
+  const std::string* text = pack.file(kPersonContextFile);
+  if (text == nullptr)
+    return make_error(ErrorKind::pack, pack.file_path(kPersonContextFile), "missing");
+  auto base = parse(*text, pack.file_path(kPersonContextFile));
+  const std::string* mixed = pack.file(kMixedNamesFile);
+  if (!base.ok() || mixed == nullptr) return base;
+  auto ctx = std::make_shared<PersonContext>(**base);
+  auto& names = ctx->lists_[static_cast<size_t>(Lexicon::mixed_name)];
+  auto error = read_records(*mixed, pack.file_path(kMixedNamesFile), kMixedFormatLine,
+                            [&](std::string_view line) -> std::string {
+                              if (!valid_word(line))
+                                return "'" + std::string(line) + "' is not one lower-case name";
+                              names.emplace(line);
+                              return "";
+                            });
+  if (error) return *error;
   return std::shared_ptr<const PersonContext>(std::move(ctx));
 }
 

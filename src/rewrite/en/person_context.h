@@ -15,12 +15,15 @@
 
 #include "base/status.h"
 #include "base/word_hash.h"
+#include "pack/pack.h"
 #include "rewrite/field_tokens.h"
 
 namespace evenhand::rewrite::en {
 
-// The data file whose presence switches person evidence on.
+// The data file whose presence switches person evidence on, and the optional list of first
+// names both sexes carry (format line, then one folded name a line).
 inline constexpr const char* kPersonContextFile = "person-context.data";
+inline constexpr const char* kMixedNamesFile = "mixed-names.data";
 
 // The word lists of person-context.data (the file's KIND column).
 enum class Lexicon : uint8_t {
@@ -35,6 +38,7 @@ enum class Lexicon : uint8_t {
   word_name,     // a listed first name that is also a common lower-case word: "Bill", "Rose"
   common_word,   // a common lower-case word of English: "hat", "star"
   proper_thing,  // a single-word name of a place, organisation or thing: "Norway", "Monday"
+  mixed_name,    // a first name both sexes carry (mixed-names.data): never swapped
   count
 };
 
@@ -43,11 +47,14 @@ class PersonContext {
   // Parses person-context.data; errors name `file` and the line.
   static Result<std::shared_ptr<const PersonContext>> parse(std::string_view text,
                                                             const std::string& file);
+  // Both files of a pack: person-context.data, and mixed-names.data when the pack has it.
+  static Result<std::shared_ptr<const PersonContext>> from_pack(const pack::CompiledPack& pack);
   bool has(Lexicon list, std::string_view folded) const;
   size_t size(Lexicon list) const { return lists_[static_cast<size_t>(list)].size(); }
+  using WordSet = std::unordered_set<std::string, WordHash, std::equal_to<>>;
+  const WordSet& words(Lexicon list) const { return lists_[static_cast<size_t>(list)]; }
 
  private:
-  using WordSet = std::unordered_set<std::string, WordHash, std::equal_to<>>;
   std::array<WordSet, static_cast<size_t>(Lexicon::count)> lists_;
 };
 
