@@ -9,7 +9,7 @@
 #include <sstream>
 
 #include "pack/pack.h"
-#include "rewrite/np_agreement.h"
+#include "rewrite/es/np_agreement.h"
 #include "support/hunspell.h"
 #include "support/temp_dir.h"
 

@@ -1,4 +1,4 @@
-// Fuzz target: the Spanish noun-phrase data files (rewrite/np_agreement.h: noun-phrase.data,
+// Fuzz target: the Spanish noun-phrase data files (rewrite/es/np_agreement.h: noun-phrase.data,
 // adjectives.data, common-gender.data, stressed-a.data). Input: replacement data files in the
 // container of fuzz_support.h (bytes before the first "%% NAME" line replace
 // noun-phrase.data); the other files are the built-in es-gender pack's. Checked: the engine

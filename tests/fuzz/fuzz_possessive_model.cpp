@@ -1,4 +1,4 @@
-// Fuzz target: the possessive model file (rewrite/possessive.h, rules/en-gender/
+// Fuzz target: the possessive model file (rewrite/en/possessive.h, rules/en-gender/
 // possessive.model). Input: a model text. Checked: parse() returns a model or an error with a
 // line, never crashes; a parsed model decides every word of a few sentences (fixed ones and
 // the input's own words) with a class and a finite, non-negative margin.
@@ -7,7 +7,7 @@
 #include <vector>
 
 #include "fuzz_support.h"
-#include "rewrite/possessive.h"
+#include "rewrite/en/possessive.h"
 
 using namespace evenhand;
 using namespace evenhand::rewrite;

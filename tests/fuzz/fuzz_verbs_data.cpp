@@ -1,4 +1,4 @@
-// Fuzz target: the verb table file (rewrite/verb_agreement.h, rules/en-gender/verbs.data).
+// Fuzz target: the verb table file (rewrite/en/verb_agreement.h, rules/en-gender/verbs.data).
 // Input: a verbs.data text. Checked: parse() returns a table or an error with a line; a
 // parsed table answers for fixed tokens and for every word of the input (folded): a plural answer
 // has a form, an unchanged one keeps the token, an unknown one says why.
@@ -7,7 +7,7 @@
 
 #include "fuzz_support.h"
 #include "pack/pack.h"
-#include "rewrite/verb_agreement.h"
+#include "rewrite/en/verb_agreement.h"
 
 using namespace evenhand;
 using namespace evenhand::rewrite;

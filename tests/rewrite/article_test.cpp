@@ -1,4 +1,4 @@
-// Article agreement (rewrite/article.h): "a" or "an" checked against the pronunciations of the
+// Article agreement (rewrite/en/article.h): "a" or "an" checked against the pronunciations of the
 // CMU Pronouncing Dictionary for every form the English pack can produce and for a sample of
 // the dictionary, plus cases written out by hand.
 #include <catch2/catch.hpp>
@@ -11,7 +11,7 @@
 #include <vector>
 
 #include "pack/pack.h"
-#include "rewrite/article.h"
+#include "rewrite/en/article.h"
 
 using namespace evenhand;
 using namespace evenhand::rewrite;

@@ -1,9 +1,9 @@
-// Tests of the "her"/"his" slot model (src/rewrite/possessive.h): accuracy of the shipped model
+// Tests of the "her"/"his" slot model (src/rewrite/en/possessive.h): accuracy of the shipped model
 // on the Brown Corpus files it was not trained on, hand-written sentences, the scoring and the
 // rules on hand-made models, model-file errors, and bit-for-bit reproducible training. The hidden
 // test "[.train]" is the training program and "[.cv]" the cross-validation inside the training
 // files (rules/tools/train-possessive.sh runs them).
-#include "rewrite/possessive.h"
+#include "rewrite/en/possessive.h"
 
 #include <algorithm>
 #include <catch2/catch.hpp>
@@ -270,7 +270,7 @@ TrainingSet build_training_set(
   // 1549 of the 1645 "her" right over seven seeds, sums of five 1547 to 1551 over four.
   set.options.ensemble = kEnsemble;
   set.options.comment =
-      "Slot model for \"her\" and \"his\" (src/rewrite/possessive.h): averaged perceptron.\n"
+      "Slot model for \"her\" and \"his\" (src/rewrite/en/possessive.h): averaged perceptron.\n"
       "Trained on the Brown Corpus (Francis & Kucera 1979), npm " +
       std::string(kBrownPackage) +
       ", odd-numbered files only.\n"

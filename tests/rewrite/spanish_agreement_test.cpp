@@ -7,7 +7,7 @@
 
 #include "pack/pack.h"
 #include "rewrite/engine.h"
-#include "rewrite/np_agreement.h"
+#include "rewrite/es/np_agreement.h"
 #include "rewrite/rewriter.h"
 
 using namespace evenhand;

@@ -1,4 +1,4 @@
-// Verb agreement (rewrite/verb_agreement.h): the shipped verbs.data checked against WordNet 3.0
+// Verb agreement (rewrite/en/verb_agreement.h): the shipped verbs.data checked against WordNet 3.0
 // itself, read at test time, and the agreement rules on cases written out by hand.
 #include <catch2/catch.hpp>
 #include <cstdio>
@@ -11,7 +11,7 @@
 #include <vector>
 
 #include "pack/pack.h"
-#include "rewrite/verb_agreement.h"
+#include "rewrite/en/verb_agreement.h"
 
 using namespace evenhand;
 using namespace evenhand::rewrite;

@@ -1,4 +1,4 @@
-#include "rewrite/article.h"
+#include "rewrite/en/article.h"
 
 #include <array>
 #include <cstddef>

@@ -1,4 +1,4 @@
-#include "rewrite/possessive.h"
+#include "rewrite/en/possessive.h"
 
 #include <algorithm>
 #include <charconv>

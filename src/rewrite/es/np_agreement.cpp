@@ -1,4 +1,4 @@
-#include "rewrite/np_agreement.h"
+#include "rewrite/es/np_agreement.h"
 
 #include <algorithm>
 #include <optional>

@@ -1,4 +1,4 @@
-#include "rewrite/verb_agreement.h"
+#include "rewrite/en/verb_agreement.h"
 
 #include <algorithm>
 #include <array>
