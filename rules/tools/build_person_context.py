@@ -1,0 +1,580 @@
+#!/usr/bin/env python3
+"""Builds rules/en-gender/person-context.data: the word lists the engine reads to tell whether
+a listed first name names a person where it stands ("Virginia said" vs "Virginia Avenue").
+
+Reproducible: the same inputs give byte-identical output (no dates, no randomness, sorted).
+Python 3 standard library only. Inputs (none is committed; install them first):
+
+  * WordNet 3.0 (Princeton University) as shipped by the Debian package wordnet-base
+    (/usr/share/wordnet: data.noun, index.noun, noun.exc, data.verb, index.verb, verb.exc,
+    cntlist.rev);
+    lexicographer file numbers as listed in lexnames(5WN) (LEXFILES below);
+  * the hunspell en_US dictionary file of the Debian package hunspell-en-us
+    (/usr/share/hunspell/en_US.dic), read as a word list: an entry written capitalised is a
+    proper noun (a surname or a place);
+  * rules/en-gender/names.txt and mixed-names.data (built by build_names.py): the names of
+    names.txt's [names] pairs, lower-cased, and the mixed names (which the engine also checks
+    for a person) are "the first names" below. Re-run this script after they change.
+
+Kinds and their method (also written into the output header, with counts):
+
+  thing-head   a common noun that, written capitalised right after a name, ends the name of a
+               thing: "Victoria Station", "Jordan River". (1) The noun synsets under the roots
+               of THING_ROOTS, following hyponym pointers (~) transitively (not ~i: instances
+               are proper names). (2) Their one-word lower-case a-z lemmas of which one of the
+               first HEAD_SENSES senses (WordNet orders senses by tagged frequency) is one of
+               those synsets: a usual meaning is a place, building, organisation or
+               publication. (3) Plus the plurals ("Bell Labs", "Universal Studios"): noun.exc
+               where it lists one, else the regular spelling. (4) Plus HEAD_EXTRA (common
+               practice: company suffixes, newspaper and utility heads that WordNet files
+               elsewhere), without plurals. (5) A word is dropped if it is a surname or
+               particle (kind below) or a plural that en_US.dic writes capitalised (a proper
+               noun: "Brooks", "Banks", "Wells"), except the hand-listed words (HEAD_EXTRA,
+               HEAD_STRONG). First names are not dropped: the engine knows its names.
+  thing-name   one of the first names that WordNet also holds as a one-word capitalised noun
+               lemma (Virginia, Florence, Jordan, Ada) in a lexicographer file of
+               THING_NAME_FILES: places, groups, artefacts, works, events, natural objects.
+  surname      a word that WordNet gives as the last word of a multi-word noun.person instance
+               lemma (Abraham_Lincoln -> lincoln; a trailing Jr., Sr. or roman numeral is
+               skipped; lemmas with an epithet "the" or "of" are skipped: Ivan_the_Terrible,
+               Joan_of_Arc), or a one-word capitalised noun.person instance lemma (Lincoln).
+               Particles (PARTICLES) and single letters are left out; first names are kept.
+  person-verb  the forms (base, 3sg, past and past participle, -ing; as build_verbs.py makes
+               them from index.verb and verb.exc) of the one-word verbs whose FIRST sense is in
+               one of PERSON_VERB_FILES. A form is dropped if it is one of the first names
+               ("will", "mark", "sue"), in AUXILIARIES (modals and auxiliaries, common
+               practice), in FUNCTION_WORDS (forms mostly used as prepositions or adverbs,
+               common practice), or a noun more than a verb: the form (for a base or 3sg
+               form: the base, of which the 3sg is the plural) is a noun whose tagged
+               occurrences in cntlist.rev, summed over its senses, outnumber the verb's.
+  title, given-title, place-prefix, greeting: hand lists (common practice), below.
+
+Output format: UTF-8 text, `#` starts a comment line; the first other line is
+`format evenhand-person-context 1`; then one `KIND WORD` per line, sorted by KIND then WORD in
+byte order, no duplicates; WORD is one lower-case word.
+
+Usage: python3 rules/tools/build_person_context.py [--check] [--wordnet DIR] [--out PATH]
+  --check  compare with the existing output instead of writing it; exit 1 if different.
+"""
+
+import argparse
+import os
+import re
+import sys
+
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+import build_names  # noqa: E402  (same folder: the first-name lists and their cleaning)
+import build_verbs  # noqa: E402  (same folder: the verb forms)
+
+REPO = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+DEFAULT_OUT = os.path.join(REPO, "rules", "en-gender", "person-context.data")
+DEFAULT_HUNSPELL = "/usr/share/hunspell/en_US.dic"
+FORMAT_LINE = "format evenhand-person-context 1"
+WORD = re.compile(r"[a-z]+(?:[-'][a-z]+)*")
+
+# Lexicographer file numbers of WordNet 3.0, as listed in lexnames(5WN) (Debian wordnet-base
+# ships it as a manual page): only those this script uses.
+LEXFILES = {
+    4: "noun.act", 29: "verb.body", 6: "noun.artifact", 10: "noun.communication", 11: "noun.event",
+    14: "noun.group", 15: "noun.location", 17: "noun.object", 18: "noun.person",
+    31: "verb.cognition", 32: "verb.communication", 34: "verb.consumption",
+    37: "verb.emotion", 39: "verb.perception", 41: "verb.social",
+}
+PERSON_FILE = 18
+
+# Roots of thing-head: (offset in data.noun, first lemma; checked against WordNet).
+THING_ROOTS = [
+    ("04564698", "way"),                      # roads, streets, paths, passages
+    ("04341686", "structure"),                # structure, construction: buildings, bridges
+    ("02913152", "building"),                 # building, edifice
+    ("03315023", "facility"),                 # facility, installation: airports, stations
+    ("03297735", "establishment"),            # a business or public structure: shops, jails
+    ("04602044", "workplace"),                # labs, studios, works
+    ("08053576", "institution"),              # institution, establishment: schools, banks
+    ("08008335", "organization"),             # organization, organisation: companies, bodies
+    ("08355075", "news_agency"),              # news agency, press agency
+    ("09225146", "body_of_water"),            # rivers, lakes, bays
+    ("09287968", "geological_formation"),     # mountains, valleys, beaches
+    ("09334396", "land"),                     # land, dry land: islands, continents
+    ("08491826", "administrative_district"),  # counties, cities, states
+    ("08552138", "district"),                 # district, territory: parishes, suburbs
+    ("08574314", "geographical_area"),        # parks, gardens, cemeteries, campuses
+    ("06589574", "publication"),              # journals, magazines, reviews
+]
+
+# common practice: heads of company, newspaper, utility and square names that WordNet files
+# under other meanings (no usual sense of theirs is a thing of THING_ROOTS). Taken as they
+# are: no plural ("Times" is one already; "Powers" would be a surname).
+HEAD_EXTRA = ["co", "corp", "gazette", "herald", "inc", "llc", "ltd", "plc", "power", "press",
+              "square", "times", "tribune"]
+
+# common practice: heads so strongly tied to places that they are kept although they are
+# also surnames or proper nouns ("Victoria House", "Albert Bridge"). Their plurals are not
+# exempt ("Bridges" is a surname).
+HEAD_STRONG = ["bridge", "house", "street"]
+
+# A lemma is a head when one of its first HEAD_SENSES senses (WordNet orders them by tagged
+# frequency) lies under a root: 2 keeps "avenue", "college", "county", "university", whose
+# first sense is a group or an act ("the college voted").
+HEAD_SENSES = 2
+
+# Lexicographer files whose capitalised lemmas make a first name a thing-name.
+THING_NAME_FILES = [4, 6, 10, 11, 14, 15, 17]
+
+# Lexicographer files of verbs that typically take a person subject (verb.body: smile, laugh,
+# sigh). verb.motion is left out: places and firms "move", "rise", "fall", rivers "run".
+PERSON_VERB_FILES = [29, 31, 32, 34, 37, 39, 41]
+
+# common practice: modal and auxiliary verbs, never evidence of a person subject.
+AUXILIARIES = ["am", "are", "be", "been", "being", "can", "could", "dare", "did", "do", "does",
+               "doing", "done", "had", "has", "have", "having", "is", "may", "might", "must",
+               "need", "ought", "shall", "should", "was", "were", "will", "would"]
+
+# common practice: verb forms mostly used as prepositions, conjunctions or adverbs, which
+# follow place names as readily as person names ("Georgia, like Texas").
+FUNCTION_WORDS = ["like", "near", "past", "round", "since", "till", "while"]
+
+# common practice: name particles, never a surname on their own.
+PARTICLES = ["al", "bin", "da", "das", "de", "del", "della", "den", "der", "des", "di", "do",
+             "dos", "du", "el", "ibn", "la", "le", "los", "mac", "st", "te", "ten", "ter", "van",
+             "von", "y", "zu"]
+NAME_SUFFIX = re.compile(r"(?:jr|sr|[ivx]+)\.?", re.IGNORECASE)
+
+# common practice: forms of address after which a capitalised word is usually a SURNAME.
+TITLES = [
+    "adm", "admiral", "atty", "attorney", "bishop", "brig", "brigadier", "capt", "captain",
+    "cdr", "chancellor", "chief", "cmdr", "col", "colonel", "commander", "commissioner",
+    "congressman", "congresswoman", "constable", "coach", "councillor", "councilman",
+    "councilwoman", "cpl", "corporal", "dean", "det", "detective", "doctor", "dr", "ens",
+    "ensign", "gen", "general", "gov", "governor", "insp", "inspector", "judge", "justice",
+    "lt", "lieut", "lieutenant", "maj", "major", "mayor", "messrs", "miss", "mister", "mme",
+    "mlle", "mr", "mrs", "ms", "mx", "officer", "pres", "president", "principal", "private",
+    "prof", "professor", "pte", "rabbi", "rep", "representative", "rev", "revd", "reverend",
+    "sen", "senator", "sergeant", "sgt", "sheriff", "supt", "superintendent",
+]
+
+# common practice: forms of address after which a capitalised word is usually a FIRST name.
+GIVEN_TITLES = [
+    "aunt", "auntie", "aunty", "brother", "cousin", "dame", "duchess", "duke", "emperor",
+    "empress", "gran", "grandma", "grandpa", "granny", "king", "lady", "lord", "nana", "pope",
+    "prince", "princess", "queen", "sir", "sister", "tsar", "tsarina", "uncle",
+]
+
+# common practice: words after which a capitalised name is part of a place or saint's name.
+PLACE_PREFIXES = [
+    "bay", "cape", "east", "fort", "ft", "glen", "great", "isla", "lake", "lower", "mount",
+    "mt", "new", "north", "point", "port", "saint", "san", "santa", "santo", "sao", "st",
+    "ste", "south", "upper", "west",
+]
+
+# common practice: words after which a capitalised name before a comma, colon, line end or
+# sentence end is the person addressed.
+GREETINGS = [
+    "bye", "cheers", "congrats", "congratulations", "dear", "dearest", "evening", "goodbye",
+    "goodnight", "greetings", "hello", "hey", "hi", "hiya", "howdy", "love", "morning", "night",
+    "regards", "sorry", "thank", "thanks", "welcome", "yo", "yours",
+]
+
+HAND_LISTS = [HEAD_EXTRA, HEAD_STRONG, AUXILIARIES, FUNCTION_WORDS, PARTICLES, TITLES,
+              GIVEN_TITLES, PLACE_PREFIXES, GREETINGS]
+
+
+class Synset:
+    __slots__ = ("lexfile", "words", "ptrs")
+
+    def __init__(self, lexfile, words, ptrs):
+        self.lexfile, self.words, self.ptrs = lexfile, words, ptrs
+
+
+def read_lines(path):
+    try:
+        with open(path, encoding="ascii") as f:
+            return f.read().split("\n")
+    except OSError as e:
+        raise build_names.BuildError(f"cannot read {path}: {e} (install the Debian package "
+                                     "wordnet-base)")
+
+
+def read_data(path):
+    """offset -> Synset of a WordNet data file (wndb(5WN))."""
+    out = {}
+    for line in read_lines(path):
+        if not line or line.startswith(" "):
+            continue
+        f = line.split(" | ", 1)[0].split()
+        n = int(f[3], 16)
+        words = [f[4 + 2 * i] for i in range(n)]
+        k = 4 + 2 * n
+        ptrs = [tuple(f[k + 1 + 4 * i:k + 4 + 4 * i]) for i in range(int(f[k]))]
+        out[f[0]] = Synset(int(f[1]), words, ptrs)
+    return out
+
+
+def read_index(path):
+    """lemma -> (tagged sense count, [synset offsets in sense order]) of a WordNet index file."""
+    out = {}
+    for line in read_lines(path):
+        if not line or line.startswith(" "):
+            continue
+        f = line.split()
+        senses = int(f[2])
+        out[f[0]] = (int(f[-senses - 1]), f[-senses:])
+    return out
+
+
+def hyponym_closure(nouns, root):
+    seen, stack = set(), [root]
+    while stack:
+        off = stack.pop()
+        if off in seen:
+            continue
+        seen.add(off)
+        stack.extend(t for sym, t, pos in nouns[off].ptrs if sym == "~" and pos == "n")
+    return seen
+
+
+def plural(noun, irregular):
+    if noun in irregular:
+        return irregular[noun]
+    if noun.endswith(("s", "x", "z", "ch", "sh")):
+        return [noun + "es"]
+    if len(noun) >= 2 and noun.endswith("y") and noun[-2] not in "aeiou":
+        return [noun[:-1] + "ies"]
+    return [noun + "s"]
+
+
+def read_proper_nouns(path):
+    """Lower-cased forms of the capitalised entries of a hunspell .dic file."""
+    out = set()
+    try:
+        with open(path, encoding="utf-8") as f:
+            lines = f.read().split("\n")[1:]  # the first line is the entry count
+    except OSError as e:
+        raise build_names.BuildError(f"cannot read {path}: {e} (install hunspell-en-us)")
+    for line in lines:
+        word = line.split("/", 1)[0].strip()
+        if word[:1].isupper() and word[1:].islower():
+            out.add(word.lower())
+    return out
+
+
+def surnames(nouns):
+    """surname -> 'multi' or 'single' (how WordNet gave it first), from noun.person instances."""
+    out = {}
+    skip_particles = set(PARTICLES)
+    for off in sorted(nouns):
+        syn = nouns[off]
+        if syn.lexfile != PERSON_FILE or not any(p[0] == "@i" for p in syn.ptrs):
+            continue
+        for lemma in syn.words:
+            parts = lemma.split("_")
+            if len(parts) == 1:
+                if not lemma[:1].isupper():
+                    continue
+                how = "single"
+            else:
+                if any(p.lower() in ("the", "of") for p in parts):
+                    continue
+                while len(parts) > 1 and NAME_SUFFIX.fullmatch(parts[-1]):
+                    parts.pop()
+                how = "multi"
+            word = parts[-1].lower()
+            if len(parts) == 1 and how == "multi":
+                continue
+            if len(word) < 2 or word in skip_particles or not WORD.fullmatch(word):
+                continue
+            out.setdefault(word, how)
+    return out
+
+
+def check_roots(nouns):
+    for off, lemma in THING_ROOTS:
+        if off not in nouns or nouns[off].words[0].lower() != lemma:
+            raise build_names.BuildError(f"root synset {off} is not '{lemma}' in data.noun")
+
+
+def thing_heads(nouns, noun_index, irregular, surnames, proper):
+    """(sorted heads, sorted dropped words, number of singular heads from WordNet)."""
+    check_roots(nouns)
+    closure = set()
+    for off, _ in THING_ROOTS:
+        closure |= hyponym_closure(nouns, off)
+    singular = set()
+    for off in closure:
+        for lemma in nouns[off].words:
+            if re.fullmatch(r"[a-z]+", lemma) and off in noun_index[lemma][1][:HEAD_SENSES]:
+                singular.add(lemma)
+    from_wordnet = len(singular)
+    singular |= set(HEAD_STRONG)
+    words = set(singular)
+    for s in singular:
+        words.update(plural(s, irregular))
+    plurals = words - singular
+    words |= set(HEAD_EXTRA)
+    hand = set(HEAD_EXTRA) | set(HEAD_STRONG)
+    particles = set(PARTICLES)
+    dropped = sorted(w for w in words if w not in hand and (w in surnames or w in particles or
+                                                         (w in plurals and w in proper)))
+    return sorted(words - set(dropped)), dropped, from_wordnet
+
+
+def thing_names(nouns, first_names):
+    """name -> sorted lexicographer file names where it is a capitalised one-word lemma."""
+    files = set(THING_NAME_FILES)
+    out = {}
+    for syn in nouns.values():
+        if syn.lexfile not in files:
+            continue
+        for lemma in syn.words:
+            if lemma[:1].isupper() and "_" not in lemma and lemma.lower() in first_names:
+                out.setdefault(lemma.lower(), set()).add(LEXFILES[syn.lexfile])
+    return {k: sorted(v) for k, v in out.items()}
+
+
+def person_verbs(wordnet, verbs, verb_index, counts, first_names):
+    """(sorted forms, {reason: sorted dropped forms}, number of lemmas)."""
+    records, _, _, _, _ = build_verbs.build(wordnet)
+    files = set(PERSON_VERB_FILES)
+    aux, func = set(AUXILIARIES), set(FUNCTION_WORDS)
+    kept, dropped, lemmas = set(), {"name": set(), "aux": set(), "func": set(), "noun": set()}, 0
+    for lemma, forms in records:
+        entry = verb_index.get(lemma)
+        if entry is None or verbs[entry[1][0]].lexfile not in files:
+            continue
+        lemmas += 1
+        vtag = counts.get(("2", lemma), 0)
+        for kind, form in [("base", lemma)] + [(k, f) for k in ("s", "past", "ing")
+                                                 for f in forms[k]]:
+            noun = lemma if kind in ("base", "s") else form
+            if form in first_names:
+                dropped["name"].add(form)
+            elif form in aux:
+                dropped["aux"].add(form)
+            elif form in func:
+                dropped["func"].add(form)
+            elif counts.get(("1", noun), 0) > vtag:
+                dropped["noun"].add(form)
+            else:
+                kept.add(form)
+    # A form kept for one lemma stays dropped if another reason drops it for another lemma
+    # only when the reason is about the form itself (name, aux, function word).
+    for reason in ("name", "aux", "func"):
+        kept -= dropped[reason]
+    dropped["noun"] -= kept
+    return sorted(kept), {k: sorted(v) for k, v in dropped.items()}, lemmas
+
+
+def read_first_names(pack_dir):
+    """(The names of the [names] pairs of the pack's names.txt, every column, lower-cased, and
+    the mixed names of mixed-names.data; the number of mixed names)."""
+    names = set()
+    section = None
+    path = os.path.join(pack_dir, "names.txt")
+    try:
+        with open(path, encoding="utf-8") as f:
+            lines = f.read().split("\n")
+    except OSError as e:
+        raise build_names.BuildError(f"cannot read {path}: {e}")
+    for line in lines:
+        line = line.split("#", 1)[0].strip()
+        if line.startswith("["):
+            section = line
+        elif line and section == "[names]":
+            for col in line.split("|"):
+                name = col.split()[0] if col.split() else "-"
+                if name != "-" and not name.startswith("~"):
+                    names.add(name.lower())
+    if not names:
+        raise build_names.BuildError(f"{path}: no [names] pairs")
+    path = os.path.join(pack_dir, "mixed-names.data")
+    try:
+        with open(path, encoding="utf-8") as f:
+            lines = f.read().split("\n")
+    except OSError as e:
+        raise build_names.BuildError(f"cannot read {path}: {e}")
+    mixed = [ln for ln in lines if ln and not ln.startswith("#") and not ln.startswith("format ")]
+    return names | set(mixed), len(mixed)
+
+
+def read_counts(path):
+    """(pos digit, lemma) -> tagged occurrences summed over senses, from cntlist.rev."""
+    out = {}
+    for line in read_lines(path):
+        f = line.split()
+        if len(f) != 3:
+            continue
+        lemma, rest = f[0].split("%", 1)
+        key = (rest[0], lemma)
+        out[key] = out.get(key, 0) + int(f[2])
+    return out
+
+
+def build(args):
+    wn = args.wordnet
+    nouns = read_data(os.path.join(wn, "data.noun"))
+    verbs = read_data(os.path.join(wn, "data.verb"))
+    noun_index = read_index(os.path.join(wn, "index.noun"))
+    verb_index = read_index(os.path.join(wn, "index.verb"))
+    irregular = {}
+    for line in read_lines(os.path.join(wn, "noun.exc")):
+        f = line.split()
+        if len(f) == 2 and re.fullmatch(r"[a-z]+", f[0]):
+            irregular.setdefault(f[1], []).append(f[0])
+    for hand in HAND_LISTS:
+        for w in hand:
+            if not WORD.fullmatch(w):
+                raise build_names.BuildError(f"hand-list entry '{w}' is not one lower-case word")
+    counts = read_counts(os.path.join(wn, "cntlist.rev"))
+    first_names, n_mixed = read_first_names(os.path.dirname(args.out))
+    proper = read_proper_nouns(args.hunspell)
+
+    sur = surnames(nouns)
+    heads, head_dropped, heads_wn = thing_heads(nouns, noun_index, irregular, sur, proper)
+    tnames = thing_names(nouns, first_names)
+    pverbs, verb_dropped, verb_lemmas = person_verbs(wn, verbs, verb_index, counts, first_names)
+    entries = set()
+    for kind, words in (("thing-head", heads), ("thing-name", tnames), ("surname", sur),
+                        ("person-verb", pverbs), ("title", TITLES),
+                        ("given-title", GIVEN_TITLES), ("place-prefix", PLACE_PREFIXES),
+                        ("greeting", GREETINGS)):
+        for w in words:
+            entries.add((kind, w))
+    stats = dict(heads_wn=heads_wn, head_dropped=head_dropped, verb_dropped=verb_dropped,
+                 verb_lemmas=verb_lemmas, sur=sur, tnames=tnames,
+                 first_names=first_names, n_mixed=n_mixed)
+    return render(entries, stats, wn)
+
+
+def comment_list(label, items):
+    return build_names.para(f"{label} ({len(items)}): " + ", ".join(items) + ".")
+
+
+def render(entries, st, wn):
+    count = {}
+    for kind, _ in entries:
+        count[kind] = count.get(kind, 0) + 1
+    sur = st["sur"]
+    pv = build_names.package_version
+    out = []
+    w = out.append
+    w("# person-context.data: words around a listed first name that tell whether it names a")
+    w("# person (English gender pack). GENERATED by rules/tools/build_person_context.py; do not")
+    w("# edit by hand, change the script and re-run it (byte-identical output for the same")
+    w("# inputs; --check compares).")
+    w("#")
+    w("# Sources:")
+    w(f"# - WordNet 3.0, Princeton University: Debian package wordnet-base {pv('wordnet-base')}")
+    w("#   (data.noun, index.noun, noun.exc, data.verb, index.verb, verb.exc, cntlist.rev);")
+    w("#   licence: the WordNet 3.0 licence, copied below. Lexicographer file numbers from")
+    w("#   lexnames(5WN).")
+    w(f"# - hunspell en_US dictionary: Debian package hunspell-en-us {pv('hunspell-en-us')}")
+    w("#   (en_US.dic from SCOWL, Kevin Atkinson et al.; permissive licence, see the package's")
+    w("#   copyright file): its capitalised entries, used only to drop words.")
+    w("# - rules/en-gender/names.txt and mixed-names.data (generated by")
+    w("#   rules/tools/build_names.py): the names of names.txt's [names] pairs, lower-cased, and")
+    w(f"#   the mixed names are \"the first names\" below: {len(st['first_names'])}, of which "
+      f"{st['n_mixed']} mixed.")
+    w("#")
+    w("# Format: `#` starts a comment line; the first other line is the format line; then one")
+    w("# `KIND WORD` per line, sorted by KIND then WORD (byte order). Kinds and method:")
+    w("#")
+    out.extend(build_names.para(
+        f"thing-head ({count.get('thing-head', 0)}): a common noun that, capitalised right "
+        "after a name, ends the name of a thing (\"Victoria Station\"). The noun synsets under "
+        "these roots (data.noun offset, lemma), by hyponym pointers (~) transitively:"))
+    out.extend(build_names.wrap([f"{o} {l}" for o, l in THING_ROOTS]))
+    out.extend(build_names.para(
+        f"  Their one-word a-z lemmas of which one of the first {HEAD_SENSES} senses (WordNet "
+        "orders senses by tagged frequency) is one of those synsets: "
+        f"{st['heads_wn']} nouns; plus the plural of each (noun.exc, else regular spelling); "
+        f"plus, common practice, without plurals: {', '.join(HEAD_EXTRA)}. Dropped: every "
+        "word that is a surname or a particle (below), and every plural that en_US.dic holds "
+        "capitalised (a proper noun: Banks, Brooks, Fields, Wells, all surnames), except the "
+        f"hand-listed words and the strong heads (common practice; not their plurals): "
+        f"{', '.join(HEAD_STRONG)}. Dropped {len(st['head_dropped'])} words, listed at the "
+        "end. Heads that are also first names are kept: the engine knows its names."))
+    files = ", ".join(LEXFILES[f] for f in THING_NAME_FILES)
+    out.extend(build_names.para(
+        f"thing-name ({count.get('thing-name', 0)}): a first name that WordNet also holds "
+        f"as a one-word capitalised noun lemma in {files}. Each with its files at the end."))
+    multi = sum(1 for v in sur.values() if v == "multi")
+    out.extend(build_names.para(
+        f"surname ({count.get('surname', 0)}): the last word of a multi-word noun.person "
+        "instance lemma (a trailing Jr., Sr. or roman numeral skipped; lemmas with \"the\" or "
+        f"\"of\" skipped): {multi}; or a one-word capitalised noun.person instance lemma: "
+        f"{len(sur) - multi} more. Left out: single letters and particles (common practice): "
+        f"{', '.join(PARTICLES)}. First names are kept."))
+    vfiles = ", ".join(LEXFILES[f] for f in PERSON_VERB_FILES)
+    vd = st["verb_dropped"]
+    out.extend(build_names.para(
+        f"person-verb ({count.get('person-verb', 0)}): the forms (base, 3sg, past, past "
+        "participle, -ing; as rules/tools/build_verbs.py makes them from index.verb and "
+        f"verb.exc) of the {st['verb_lemmas']} one-word verbs whose first sense is in "
+        f"{vfiles} (verb.motion is left out: places and firms move, rise and fall). Dropped: "
+        f"forms that are first names ({len(vd['name'])}); modals and auxiliaries ("
+        f"{len(vd['aux'])}, common practice: {', '.join(AUXILIARIES)}); forms mostly used as "
+        f"prepositions or adverbs ({len(vd['func'])}, common practice: "
+        f"{', '.join(FUNCTION_WORDS)}); forms that are more a noun than a verb "
+        f"({len(vd['noun'])}: the form, or for a base or 3sg form the base, is a noun whose "
+        "tagged occurrences in cntlist.rev, summed over its senses, outnumber the verb's). "
+        "The dropped forms are listed at the end."))
+    for kind, label in (("title", "forms of address after which a capitalised word is "
+                         "usually a surname"),
+                        ("given-title", "forms of address after which a capitalised word is "
+                         "usually a first name"),
+                        ("place-prefix", "words after which a capitalised name is part of a "
+                         "place or saint's name"),
+                        ("greeting", "words after which a capitalised name before a comma, "
+                         "colon, line end or sentence end is addressed")):
+        out.extend(build_names.para(f"{kind} ({count.get(kind, 0)}): {label}; hand list "
+                                    "(common practice)."))
+    w("#")
+    w("# The WordNet licence, as the WordNet files carry it:")
+    for line in build_verbs.read_licence(os.path.join(wn, "index.verb")):
+        w(("# " + line).rstrip())
+    w("#")
+    w(FORMAT_LINE)
+    for kind, word in sorted(entries, key=lambda e: (e[0].encode(), e[1].encode())):
+        w(f"{kind} {word}")
+    w("#")
+    w("# Notes (comments only).")
+    out.extend(comment_list("thing-head, dropped", st["head_dropped"]))
+    out.extend(comment_list("thing-name, with its lexicographer files",
+                            [f"{n} ({' '.join(f)})" for n, f in sorted(st["tnames"].items())]))
+    for reason, label in (("name", "first names"), ("aux", "auxiliaries"),
+                          ("func", "function words"), ("noun", "more a noun")):
+        out.extend(comment_list(f"person-verb, dropped as {label}", vd[reason]))
+    return "".join(line.rstrip() + "\n" for line in out)
+
+
+def main():
+    p = argparse.ArgumentParser(description=__doc__.split("\n")[0])
+    p.add_argument("--wordnet", default=build_verbs.DEFAULT_WORDNET)
+    p.add_argument("--hunspell", default=DEFAULT_HUNSPELL)
+    p.add_argument("--out", default=DEFAULT_OUT)
+    p.add_argument("--check", action="store_true")
+    args = p.parse_args()
+    try:
+        text = build(args)
+    except build_names.BuildError as e:
+        print(f"build_person_context.py: {e}", file=sys.stderr)
+        return 2
+    data = text.encode("utf-8")
+    if args.check:
+        try:
+            with open(args.out, "rb") as f:
+                same = f.read() == data
+        except FileNotFoundError:
+            same = False
+        print(f"{args.out}: {'up to date' if same else 'DIFFERS from the generator output'}")
+        return 0 if same else 1
+    tmp = args.out + ".tmp"
+    with open(tmp, "wb") as f:
+        f.write(data)
+    os.replace(tmp, args.out)
+    print(f"wrote {args.out}")
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
