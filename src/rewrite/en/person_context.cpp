@@ -38,7 +38,7 @@ constexpr KindName kKinds[] = {
     {"greeting", Lexicon::greeting},
     {"word-name", Lexicon::word_name},
     {"common-word", Lexicon::common_word},
-    {"proper-thing", Lexicon::proper_thing},
+    {"proper-thing", Lexicon::proper_thing}, {"place-preposition", Lexicon::place_preposition},
 };
 
 bool valid_word(std::string_view w) {
@@ -203,6 +203,13 @@ class Around {
   bool initial(size_t j) const {
     return word(j) && raw(j).size() == 1 && capital(j) && is(j + 1, ".");
   }
+  // First on its line after a dash of attribution ("-- Name", an em dash and "Name").
+  bool attribution(size_t j) const {
+    size_t dashes = 0;
+    for (; j > 0 && !newline_before(j); --j, ++dashes)
+      if (f(j - 1) != "-" && f(j - 1) != "\xE2\x80\x94") return false;
+    return dashes >= 2 || (dashes == 1 && f(j) == "\xE2\x80\x94");
+  }
   // "<nick> NAME" (a chat line) and "<NAME>" (the speaker).
   bool after_chat_label(size_t j) const { return j >= 3 && is(j - 1, ">") && is(j - 3, "<"); }
   bool chat_label(size_t j) const { return j >= 1 && is(j - 1, "<") && is(j + 1, ">"); }
@@ -250,13 +257,13 @@ class Around {
 };
 
 NameVerdict yes(const char* why, Evidence e = Evidence::firm) {
-  return {true, e, false, why};
+  return {.person = true, .evidence = e, .why = why};
 }
 NameVerdict no(const char* why, Evidence e = Evidence::firm) {
-  return {false, e, false, why};
+  return {.person = false, .evidence = e, .why = why};
 }
 NameVerdict surname(const char* why) {
-  return {false, Evidence::firm, true, why};
+  return {.person = false, .evidence = Evidence::firm, .surname = true, .why = why};
 }
 
 bool is_subject_pronoun(std::string_view w) {
@@ -356,6 +363,9 @@ std::optional<NameVerdict> judge_after(const Around& a, const NameSite& s, size_
 NameVerdict judge_name(const PersonContext& lexicons, const NameSite& site) {
   Around a(lexicons, site);
   const size_t k = site.at;
+  if (a.attribution(k) && a.adjacent(k, k + 1) && a.capital(k + 1) &&
+      !a.has(Lexicon::thing_head, k + 1))
+    return yes("opens an attribution or signature");
   const bool common = word_like(a, lexicons, site);
   if (a.all_caps(k) && !a.all_caps_around(k)) return no("written in capitals: an acronym");
   if (auto v = thing_after(a, k)) return *v;
@@ -365,8 +375,9 @@ NameVerdict judge_name(const PersonContext& lexicons, const NameSite& site) {
     return no("after 'X of': part of a longer name");
   if (auto v = judge_after(a, site, k, common)) return *v;
   if (common) return no("also a common word, and nothing says it names a person", Evidence::none);
-  if (lexicons.has(Lexicon::thing_name, a.f(k)))
-    return no("also a place's or thing's name, and nothing says it names a person", Evidence::none);
+  if (lexicons.has(Lexicon::thing_name, a.f(k)) && p != SIZE_MAX &&
+      a.has(Lexicon::place_preposition, p))
+    return {.evidence = Evidence::some, .place = true, .why = "a place's name after a preposition"};
   return yes("a first name", Evidence::none);
 }
 

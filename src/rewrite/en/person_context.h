@@ -38,6 +38,7 @@ enum class Lexicon : uint8_t {
   word_name,     // a listed first name that is also a common lower-case word: "Bill", "Rose"
   common_word,   // a common lower-case word of English: "hat", "star"
   proper_thing,  // a single-word name of a place, organisation or thing: "Norway", "Monday"
+  place_preposition,  // "at", "in": a thing-name after one reads as the place
   mixed_name,    // a first name both sexes carry (mixed-names.data): never swapped
   count
 };
@@ -74,12 +75,14 @@ struct NameSite {
 enum class Evidence : uint8_t { none, some, firm };
 
 // The verdict on one occurrence. `surname` marks a name read as a surname: in the same record
-// it is then a surname wherever no firm evidence says otherwise; a name read as a person with
-// evidence is a person wherever nothing around it says anything.
+// it is then a surname wherever no firm evidence says otherwise; `place` likewise for a place
+// ("in Dallas"); a name read as a person with evidence is a person wherever nothing around it
+// says anything.
 struct NameVerdict {
   bool person = false;
   Evidence evidence = Evidence::none;
   bool surname = false;
+  bool place = false;    // read as a place's name: so wherever nothing says otherwise
   const char* why = "";  // for the audit log: the evidence, in a few words
 };
 
