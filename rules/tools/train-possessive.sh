@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
 # Retrains rules/en-gender/possessive.model (the "her"/"his" slot model of
-# src/rewrite/possessive.h) from the odd-numbered Brown Corpus files, then measures it on the
+# src/rewrite/en/possessive.h) from the odd-numbered Brown Corpus files, then measures it on the
 # even-numbered ones. Deterministic: a rerun writes the same bytes.
 # Usage (from anywhere): rules/tools/train-possessive.sh [--cv] [BUILD_DIR]   (default: build-poss)
 #   --cv  only run the 4-fold cross-validation inside the odd files (the development measure);

@@ -23,10 +23,10 @@
 #include "pack/pack.h"
 #include "rewrite/en/article.h"
 #include "rewrite/en/person_context.h"
-#include "rewrite/engine.h"
-#include "rewrite/es/np_agreement.h"
 #include "rewrite/en/possessive.h"
 #include "rewrite/en/verb_agreement.h"
+#include "rewrite/engine.h"
+#include "rewrite/es/np_agreement.h"
 #include "text/case.h"
 #include "text/protect.h"
 #include "text/tokenize.h"
@@ -222,6 +222,7 @@ class LexiconEngine final : public Engine {
     for (const auto& [key, v] : protected_.by_first) words_[key].prot = &v;
     if (persons_)
       for (const auto& w : persons_->words(en::Lexicon::mixed_name)) words_[w].mixed_name = true;
+    for (const auto& pair : pack_->names()) word_like_pair_.push_back(word_like(pair));
     words_.freeze();
   }
   const pack::CompiledPack* pack() const override { return pack_.get(); }
@@ -235,6 +236,14 @@ class LexiconEngine final : public Engine {
   std::shared_ptr<const VerbTable> verbs_;
   std::shared_ptr<const NounPhraseAgreement> np_;     // null unless the pack has noun-phrase.data
   std::shared_ptr<const en::PersonContext> persons_;  // null unless person-context.data
+  std::vector<uint8_t> word_like_pair_;               // per name pair: holds a common word
+
+  bool word_like(const pack::NamePair& pair) const {
+    if (!persons_ || persons_->size(en::Lexicon::word_name) == 0) return pair.word_like;
+    for (const auto& n : pair.names)
+      if (!n.empty() && persons_->has(en::Lexicon::word_name, pack::fold_word(n))) return true;
+    return false;
+  }
   EngineOptions options_;
   std::vector<uint16_t> target_;
   PhraseIndex guards_;
@@ -468,7 +477,7 @@ void LexiconWorker::judge_names(std::string_view text) {
     if (!capitalised(text.substr(items[k].begin, name.size()))) continue;
     prepare_site(text);
     site_.at = k;
-    site_.word_like = e_.pack_->names()[en->set].word_like;
+    site_.word_like = e_.word_like_pair_[en->set];
     items[k].call = static_cast<uint32_t>(calls_.size());
     calls_.push_back({en::judge_name(*e_.persons_, site_), name, {}, false});
   }
@@ -496,7 +505,7 @@ void LexiconWorker::note_unswappable(std::string_view text, size_t k) {
   if (items[k].slots->mixed_name) {  // judged with the others; settle_names() decides
     prepare_site(text);
     site_.at = k;
-    site_.word_like = false;
+    site_.word_like = lex.has(en::Lexicon::word_name, folded(k));
     calls_.push_back({en::judge_name(lex, site_), folded(k), raw(k), true});
     return;
   }

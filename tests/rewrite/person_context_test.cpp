@@ -76,6 +76,7 @@ struct Judge {
     site.tokens = ft;
     site.text = text;
     site.at = at;
+    site.word_like = lex->has(Lexicon::word_name, folded[at]);  // the engine asks the pair
     site.is_name = [](std::string_view w) {
       for (const char* n : kNames)
         if (w == n) return true;

@@ -38,7 +38,8 @@ constexpr KindName kKinds[] = {
     {"greeting", Lexicon::greeting},
     {"word-name", Lexicon::word_name},
     {"common-word", Lexicon::common_word},
-    {"proper-thing", Lexicon::proper_thing}, {"place-preposition", Lexicon::place_preposition},
+    {"proper-thing", Lexicon::proper_thing},
+    {"place-preposition", Lexicon::place_preposition},
 };
 
 bool valid_word(std::string_view w) {
@@ -270,13 +271,6 @@ bool is_subject_pronoun(std::string_view w) {
   return w == "i" || w == "you" || w == "we" || w == "they" || w == "he" || w == "she" || w == "it";
 }
 
-// The name is a common word too: the pack's per-name list when it has one, else the pair's
-// ~word mark.
-bool word_like(const Around& a, const PersonContext& lex, const NameSite& s) {
-  if (lex.size(Lexicon::word_name) > 0) return a.has(Lexicon::word_name, s.at);
-  return s.word_like;
-}
-
 // How surely the capitalised word after the name (on its line) is a surname: firm when the
 // surname list holds it; some when it is no common word and no thing's name; else none.
 Evidence surname_after(const Around& a, size_t k) {
@@ -366,7 +360,7 @@ NameVerdict judge_name(const PersonContext& lexicons, const NameSite& site) {
   if (a.attribution(k) && a.adjacent(k, k + 1) && a.capital(k + 1) &&
       !a.has(Lexicon::thing_head, k + 1))
     return yes("opens an attribution or signature");
-  const bool common = word_like(a, lexicons, site);
+  const bool common = site.word_like;
   if (a.all_caps(k) && !a.all_caps_around(k)) return no("written in capitals: an acronym");
   if (auto v = thing_after(a, k)) return *v;
   if (auto v = judge_before(a, site, k)) return *v;

@@ -27,19 +27,19 @@ inline constexpr const char* kMixedNamesFile = "mixed-names.data";
 
 // The word lists of person-context.data (the file's KIND column).
 enum class Lexicon : uint8_t {
-  thing_head,    // ends a multi-word name of a place or organisation: "Street", "Labs"
-  thing_name,    // a listed first name that is also a name of a place or thing: "Virginia"
-  surname,       // known as a person's surname: "Smith"
-  person_verb,   // a verb form that takes a person as subject: "said", "wrote"
-  title,         // a form of address before a surname: "Mr", "Dr", "Senator"
-  given_title,   // a form of address before a first name: "Aunt", "Sir", "Sister"
-  place_prefix,  // opens a place or saint's name: "San", "Fort", "New"
-  greeting,      // addresses the name after it: "Dear", "Hi", "Thanks"
-  word_name,     // a listed first name that is also a common lower-case word: "Bill", "Rose"
-  common_word,   // a common lower-case word of English: "hat", "star"
-  proper_thing,  // a single-word name of a place, organisation or thing: "Norway", "Monday"
+  thing_head,         // ends a multi-word name of a place or organisation: "Street", "Labs"
+  thing_name,         // a listed first name that is also a name of a place or thing: "Virginia"
+  surname,            // known as a person's surname: "Smith"
+  person_verb,        // a verb form that takes a person as subject: "said", "wrote"
+  title,              // a form of address before a surname: "Mr", "Dr", "Senator"
+  given_title,        // a form of address before a first name: "Aunt", "Sir", "Sister"
+  place_prefix,       // opens a place or saint's name: "San", "Fort", "New"
+  greeting,           // addresses the name after it: "Dear", "Hi", "Thanks"
+  word_name,          // a listed first name that is also a common lower-case word: "Bill", "Rose"
+  common_word,        // a common lower-case word of English: "hat", "star"
+  proper_thing,       // a single-word name of a place, organisation or thing: "Norway", "Monday"
   place_preposition,  // "at", "in": a thing-name after one reads as the place
-  mixed_name,    // a first name both sexes carry (mixed-names.data): never swapped
+  mixed_name,         // a first name both sexes carry (mixed-names.data): never swapped
   count
 };
 
@@ -64,7 +64,10 @@ struct NameSite {
   std::span<const FieldToken> tokens;  // the field's tokens (no white space)
   std::string_view text;               // the field
   size_t at = 0;                       // the name's token
-  bool word_like = false;              // the pack marks the name's pair ~word
+  // The name's pair holds a common word (word-name entries; without them, the pack's ~word
+  // mark): the whole pair needs evidence, so rewriting a counterfactual again gives back the
+  // original name.
+  bool word_like = false;
   // Whether a folded word is a listed first name, and whether it is a person word of the pack
   // ("brother", "wife").
   std::function<bool(std::string_view)> is_name, is_person_word;
