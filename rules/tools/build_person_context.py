@@ -32,8 +32,8 @@ Kinds and their method (also written into the output header, with counts):
                noun: "Brooks", "Banks", "Wells"), except the hand-listed words (HEAD_EXTRA,
                HEAD_STRONG). First names are not dropped: the engine knows its names.
   thing-name   one of the first names that WordNet also holds as a one-word capitalised noun
-               lemma (Virginia, Florence, Jordan, Ada) in a lexicographer file of
-               THING_NAME_FILES: places, groups, artefacts, works, events, natural objects.
+               lemma (Virginia, Florence, Jordan, Stanford) in a lexicographer file of
+               THING_NAME_FILES: places and groups.
   surname      a word that WordNet gives as the last word of a multi-word noun.person instance
                lemma (Abraham_Lincoln -> lincoln; a trailing Jr., Sr. or roman numeral is
                skipped; lemmas with an epithet "the" or "of" are skipped: Ivan_the_Terrible,
@@ -143,8 +143,10 @@ HEAD_STRONG = ["bridge", "house", "street"]
 # first sense is a group or an act ("the college voted").
 HEAD_SENSES = 2
 
-# Lexicographer files whose capitalised lemmas make a first name a thing-name.
-THING_NAME_FILES = [4, 6, 10, 11, 14, 15, 17]
+# Lexicographer files whose capitalised lemmas make a first name a thing-name: places and
+# groups (the engine reads a thing-name as a place after a preposition of place: "at
+# Stanford", "in Virginia"); books, languages and artefacts ("Judith", "Ada") are no places.
+THING_NAME_FILES = [14, 15]
 
 # Lexicographer files of verbs that typically take a person subject (verb.body: smile, laugh,
 # sigh). verb.motion is left out: places and firms "move", "rise", "fall", rivers "run".

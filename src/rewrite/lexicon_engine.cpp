@@ -514,6 +514,8 @@ void LexiconWorker::note_unswappable(std::string_view text, size_t k) {
                                         lex.has(en::Lexicon::given_title, folded(k)));
   size_t n = k + 1 < items.size() && folded(k + 1) == "." ? k + 2 : k + 1;
   if (!titled || !cap_word(n) || !cap_word(n + 1) || name_entry(n) != nullptr) return;
+  // In capitals ("MR LOWTHER AT THE DESK") the case tells no name from the words after it.
+  if (text::case_pattern(raw(n)) != text::CasePattern::title) return;
   if (lex.has(en::Lexicon::common_word, folded(n)) || lex.has(en::Lexicon::surname, folded(n)))
     return;
   if (unswappable_.empty())
