@@ -549,7 +549,7 @@ void LexiconWorker::settle_names() {
     if (c.verdict.evidence == en::Evidence::firm) continue;
     if (in(surnames, c.name)) {
       c.verdict = {.surname = true, .why = "a surname elsewhere in the record"};
-    } else if (c.verdict.evidence == en::Evidence::none && in(places, c.name)) {
+    } else if (in(places, c.name)) {
       c.verdict = {.place = true, .why = "a place elsewhere in the record"};
     } else if (c.verdict.evidence == en::Evidence::none && in(persons, c.name)) {
       c.verdict = {.person = true, .why = "names a person elsewhere in the record"};

@@ -40,13 +40,17 @@ common-word effect
 common-word wars
 common-word hat
 proper-thing norway
+surname norway
+greeting hi
+thing-head wall
 proper-thing monday
 )";
 
 // Names of the cases' first-name lists (a stand-in for the pack's names).
-const char* const kNames[] = {"woody", "allen", "will",  "clay", "charles", "alice", "bob",
-                              "joy",   "louis", "red",   "star", "even",    "lucas", "carson",
-                              "eliza", "grace", "clark", "dean", "rudolph"};
+const char* const kNames[] = {"woody",   "allen",  "will",  "clay",  "charles", "alice",
+                              "bob",     "joy",    "louis", "red",   "star",    "even",
+                              "lucas",   "carson", "eliza", "grace", "clark",   "dean",
+                              "rudolph", "larry",  "hi",    "james", "andrea"};
 
 struct Judge {
   std::shared_ptr<const PersonContext> lex;
@@ -175,4 +179,23 @@ TEST_CASE("an auxiliary before a subject pronoun is no name") {
   Judge judge;
   // from memory (common practice): "Will you" opens a question
   CHECK_FALSE(judge("Will you come to the meeting?", "Will").person);
+}
+
+TEST_CASE("attribution lines: the author is a person, the quoted work is not") {
+  Judge judge;
+  // source: Debian package fortunes, file "linux": a surname that is also a common noun
+  CHECK(judge("Goes with the territory...\n\t\t-- Larry Wall", "Larry").person);
+  // source: Debian package fortunes, file "people"
+  const std::string line = "discovery.\n\t\t-- James Joyce, \"Ulysses\"";
+  CHECK(judge(line, "James").person);
+  // source: Debian package fortunes, file "wisdom"
+  CHECK_FALSE(judge("\t\t-- Robert Browning, \"Andrea del Sarto\"", "Andrea").person);
+}
+
+TEST_CASE("a name that is also a greeting, and a country after a common word") {
+  Judge judge;
+  // source: Debian package fortunes, file "knghtbrd"
+  CHECK_FALSE(judge("Hi! I'm a .signature virus!", "Hi").person);
+  // source: Brown corpus, file ca04: WordNet also lists Norway as a surname; the country wins
+  CHECK_FALSE(judge("Even Norway, despite daily but limited manifestations", "Even").person);
 }

@@ -211,6 +211,14 @@ class Around {
       if (f(j - 1) != "-" && f(j - 1) != "\xE2\x80\x94") return false;
     return dashes >= 2 || (dashes == 1 && f(j) == "\xE2\x80\x94");
   }
+  // Opens the quoted title of a work in an attribution line: '-- Author, "Title"'.
+  bool quoted_title(size_t j) const {
+    if (j < 2 || (!is(j - 1, "\"") && !is(j - 1, "\xE2\x80\x9C")) || !is(j - 2, ",")) return false;
+    size_t first = j;
+    while (first > 0 && !newline_before(first)) --first;
+    while (first < j && !word(first)) ++first;
+    return first < j && attribution(first);
+  }
   // "<nick> NAME" (a chat line) and "<NAME>" (the speaker).
   bool after_chat_label(size_t j) const { return j >= 3 && is(j - 1, ">") && is(j - 3, "<"); }
   bool chat_label(size_t j) const { return j >= 1 && is(j - 1, "<") && is(j + 1, ">"); }
@@ -277,8 +285,9 @@ Evidence surname_after(const Around& a, size_t k) {
   size_t n = k + 1;
   if (!a.adjacent(k, n) || !a.capital(n) || a.has(Lexicon::thing_head, n)) return Evidence::none;
   if (is_subject_pronoun(a.f(n)) || a.all_caps(n) != a.all_caps(k)) return Evidence::none;
+  if (a.has(Lexicon::proper_thing, n)) return Evidence::none;  // "Even Norway", "Trenton Monday"
   if (a.has(Lexicon::surname, n) || a.initial(n)) return Evidence::firm;
-  for (Lexicon l : {Lexicon::thing_name, Lexicon::common_word, Lexicon::proper_thing})
+  for (Lexicon l : {Lexicon::thing_name, Lexicon::common_word})
     if (a.has(l, n)) return Evidence::none;
   return Evidence::some;
 }
@@ -346,7 +355,8 @@ std::optional<NameVerdict> judge_after(const Around& a, const NameSite& s, size_
   if (common && a.adjacent(k, k + 1) && a.capital(k + 1) && a.has(Lexicon::common_word, k + 1))
     return no("a capitalised common word follows: a title or a thing's name", Evidence::some);
   if (k >= 2 && a.is(k - 1, "and") && joined(k - 2)) return yes("joined to another person");
-  if (a.is(k + 1, ",") && a.line_start(k) && !common) return yes("addressed at a line start");
+  if (a.is(k + 1, ",") && a.line_start(k) && !common)
+    return yes("addressed at a line start", Evidence::some);
   if ((a.is(k + 1, ",") || a.is(k + 1, ":")) && a.after_chat_label(k)) return yes("addressed");
   if (k > 0 && a.is(k - 1, ",") && a.closes_sentence(k + 1)) return yes("addressed");
   return std::nullopt;
@@ -357,10 +367,11 @@ std::optional<NameVerdict> judge_after(const Around& a, const NameSite& s, size_
 NameVerdict judge_name(const PersonContext& lexicons, const NameSite& site) {
   Around a(lexicons, site);
   const size_t k = site.at;
-  if (a.attribution(k) && a.adjacent(k, k + 1) && a.capital(k + 1) &&
-      !a.has(Lexicon::thing_head, k + 1))
+  if (a.attribution(k) && a.adjacent(k, k + 1) && a.capital(k + 1))
     return yes("opens an attribution or signature");
-  const bool common = site.word_like;
+  if (a.quoted_title(k)) return no("opens a quoted title in an attribution");
+  // A name that is also a greeting ("Hi") is a common word too.
+  const bool common = site.word_like || lexicons.has(Lexicon::greeting, a.f(k));
   if (a.all_caps(k) && !a.all_caps_around(k)) return no("written in capitals: an acronym");
   if (auto v = thing_after(a, k)) return *v;
   if (auto v = judge_before(a, site, k)) return *v;
