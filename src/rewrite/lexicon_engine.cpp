@@ -273,8 +273,34 @@ constexpr std::array<char, 256> kAsciiLower = [] {
   return t;
 }();
 
+// UAX #29 keeps underscores inside words ("_Grace_" is one word); emphasis marks of plain
+// text are split off as punctuation so that the word inside them is matched.
+static void split_emphasis(std::string_view field, std::vector<text::Token>& tokens) {
+  bool any = false;
+  for (const auto& t : tokens)
+    any = any ||
+          (t.kind == text::TokenKind::word && (field[t.begin] == '_' || field[t.end - 1] == '_'));
+  if (!any) return;
+  std::vector<text::Token> out;
+  out.reserve(tokens.size() + 8);
+  for (const auto& t : tokens) {
+    uint32_t b = t.begin, e = t.end;
+    if (t.kind == text::TokenKind::word) {
+      while (b < e && field[b] == '_') out.push_back({b, b + 1, text::TokenKind::punct}), ++b;
+      uint32_t tail = e;
+      while (tail > b && field[tail - 1] == '_') --tail;
+      if (b < tail) out.push_back({b, tail, text::TokenKind::word});
+      for (uint32_t i = tail; i < e; ++i) out.push_back({i, i + 1, text::TokenKind::punct});
+      continue;
+    }
+    out.push_back(t);
+  }
+  tokens = std::move(out);
+}
+
 void LexiconWorker::prepare_field(std::string_view field) {
   tokenizer_.tokenize_without_space(field, tokens_);
+  split_emphasis(field, tokens_);
   std::vector<Item>& items = cur_->items;
   std::string& fold = cur_->fold;
   items.clear();

@@ -219,6 +219,8 @@ class Around {
     while (first < j && !word(first)) ++first;
     return first < j && attribution(first);
   }
+  bool opening_quote(size_t j) const { return is(j, "\"") || is(j, "\xE2\x80\x9C"); }
+  bool closing_quote(size_t j) const { return is(j, "\"") || is(j, "\xE2\x80\x9D"); }
   // "<nick> NAME" (a chat line) and "<NAME>" (the speaker).
   bool after_chat_label(size_t j) const { return j >= 3 && is(j - 1, ">") && is(j - 3, "<"); }
   bool chat_label(size_t j) const { return j >= 1 && is(j - 1, "<") && is(j + 1, ">"); }
@@ -359,6 +361,11 @@ std::optional<NameVerdict> judge_after(const Around& a, const NameSite& s, size_
     return yes("addressed at a line start", Evidence::some);
   if ((a.is(k + 1, ",") || a.is(k + 1, ":")) && a.after_chat_label(k)) return yes("addressed");
   if (k > 0 && a.is(k - 1, ",") && a.closes_sentence(k + 1)) return yes("addressed");
+  if (a.is(k - 1 + (k == 0), "(") && a.is(k + 1, ")") && a.capital(k + 2))
+    return yes("a nickname before a surname");
+  if (k > 0 && a.opening_quote(k - 1) &&
+      (a.closing_quote(k + 1) || (a.is(k + 1, ",") && a.closing_quote(k + 2))))
+    return yes("quoted on its own: addressed or spoken of", Evidence::some);
   return std::nullopt;
 }
 
