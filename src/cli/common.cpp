@@ -9,6 +9,7 @@
 #include <filesystem>
 #include <iostream>
 #include <sstream>
+#include <system_error>
 #include <thread>
 
 #include "cli/cli.h"
@@ -132,13 +133,19 @@ void install_stop_signals() {
   if (!any || ::pthread_sigmask(SIG_BLOCK, &set, nullptr) != 0) return;
   // Blocked in every thread (they all start later and inherit the mask), so only this one
   // receives them, as an ordinary thread that may lock the temporary-file registry.
-  std::thread([set] {
-    int sig = 0;
-    while (::sigwait(&set, &sig) != 0) {
-    }
-    io::abandon_temp_files();
-    ::_exit(128 + sig);
-  }).detach();
+  try {
+    std::thread([set] {
+      int sig = 0;
+      while (::sigwait(&set, &sig) != 0) {
+      }
+      io::abandon_temp_files();
+      ::_exit(128 + sig);
+    }).detach();
+  } catch (const std::system_error&) {
+    // No thread to wait for them: the signals keep their default action (the run ends at
+    // once and may leave its hidden temporary files, as after SIGKILL).
+    ::pthread_sigmask(SIG_UNBLOCK, &set, nullptr);
+  }
 }
 
 Status write_file_atomic(const std::string& path, const std::string& text) {
