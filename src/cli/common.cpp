@@ -19,6 +19,7 @@
 namespace evenhand::cli {
 
 void print_error(const std::string& message) {
+  if (pipe_closed()) return;  // the reader went away: end quietly, as on SIGPIPE
   std::cerr << "evenhand: " << message << "\n";
 }
 
@@ -124,7 +125,7 @@ void install_stop_signals() {
   sigset_t set;
   sigemptyset(&set);
   bool any = false;
-  for (int sig : {SIGINT, SIGTERM, SIGHUP}) {
+  for (int sig : {SIGINT, SIGTERM, SIGHUP, SIGPIPE}) {
     struct sigaction old;
     if (::sigaction(sig, nullptr, &old) == 0 && old.sa_handler == SIG_IGN) continue;
     sigaddset(&set, sig);
@@ -146,6 +147,17 @@ void install_stop_signals() {
     // once and may leave its hidden temporary files, as after SIGKILL).
     ::pthread_sigmask(SIG_UNBLOCK, &set, nullptr);
   }
+}
+
+bool pipe_closed() {
+  sigset_t pending;
+  sigemptyset(&pending);
+  return ::sigpending(&pending) == 0 && sigismember(&pending, SIGPIPE) == 1;
+}
+
+int stop_for_closed_pipe() {
+  io::abandon_temp_files();
+  return 128 + SIGPIPE;
 }
 
 Status write_file_atomic(const std::string& path, const std::string& text) {
