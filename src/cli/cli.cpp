@@ -35,6 +35,31 @@ const char* kUsageText =
     "\n"
     "'evenhand COMMAND --help' shows a command's options.\n";
 
+// Runs the command named `cmd`; returns its exit code.
+int dispatch(const std::string& cmd, const std::vector<std::string>& rest,
+             const std::vector<std::string>& all) {
+  if (cmd == "--help" || cmd == "-h" || cmd == "help") {
+    std::cout << kUsageText;
+    return kOk;
+  }
+  if (cmd == "--version") {
+    std::cout << "evenhand " << kVersion << "\n";
+    return kOk;
+  }
+  if (cmd == "run") return run_command(rest, all);
+  if (cmd == "check") return check_command(rest);
+  if (cmd == "tally") return tally_command(rest);
+  if (cmd == "plan") return plan_command(rest);
+  if (cmd == "merge-manifests") return merge_manifests_command(rest);
+  if (cmd == "review") return review_command(rest);
+  if (cmd == "report") return report_command(rest);
+  if (cmd == "associations") return associations_command(rest);
+  if (cmd == "packs") return packs_command(rest);
+  if (cmd == "pair-names") return pair_names_command(rest);
+  print_error("unknown command '" + cmd + "' (see 'evenhand --help')");
+  return kUsage;
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
@@ -43,30 +68,12 @@ int main(int argc, char** argv) {
     std::cerr << kUsageText;
     return kUsage;
   }
-  std::string cmd = argv[1];
   std::vector<std::string> rest(all.begin() + 2, all.end());
   try {
     install_stop_signals();
-    if (cmd == "--help" || cmd == "-h" || cmd == "help") {
-      std::cout << kUsageText;
-      return kOk;
-    }
-    if (cmd == "--version") {
-      std::cout << "evenhand " << kVersion << "\n";
-      return kOk;
-    }
-    if (cmd == "run") return run_command(rest, all);
-    if (cmd == "check") return check_command(rest);
-    if (cmd == "tally") return tally_command(rest);
-    if (cmd == "plan") return plan_command(rest);
-    if (cmd == "merge-manifests") return merge_manifests_command(rest);
-    if (cmd == "review") return review_command(rest);
-    if (cmd == "report") return report_command(rest);
-    if (cmd == "associations") return associations_command(rest);
-    if (cmd == "packs") return packs_command(rest);
-    if (cmd == "pair-names") return pair_names_command(rest);
-    print_error("unknown command '" + cmd + "' (see 'evenhand --help')");
-    return kUsage;
+    const int rc = dispatch(argv[1], rest, all);
+    std::cout.flush();
+    return pipe_closed() ? stop_for_closed_pipe() : rc;
   } catch (const std::bad_alloc&) {
     print_error("out of memory");
     return kInternal;

@@ -9,6 +9,7 @@
 #include <filesystem>
 #include <iostream>
 #include <sstream>
+#include <system_error>
 #include <thread>
 
 #include "cli/cli.h"
@@ -18,6 +19,7 @@
 namespace evenhand::cli {
 
 void print_error(const std::string& message) {
+  if (pipe_closed()) return;  // the reader went away: end quietly, as on SIGPIPE
   std::cerr << "evenhand: " << message << "\n";
 }
 
@@ -123,7 +125,7 @@ void install_stop_signals() {
   sigset_t set;
   sigemptyset(&set);
   bool any = false;
-  for (int sig : {SIGINT, SIGTERM, SIGHUP}) {
+  for (int sig : {SIGINT, SIGTERM, SIGHUP, SIGPIPE}) {
     struct sigaction old;
     if (::sigaction(sig, nullptr, &old) == 0 && old.sa_handler == SIG_IGN) continue;
     sigaddset(&set, sig);
@@ -132,13 +134,30 @@ void install_stop_signals() {
   if (!any || ::pthread_sigmask(SIG_BLOCK, &set, nullptr) != 0) return;
   // Blocked in every thread (they all start later and inherit the mask), so only this one
   // receives them, as an ordinary thread that may lock the temporary-file registry.
-  std::thread([set] {
-    int sig = 0;
-    while (::sigwait(&set, &sig) != 0) {
-    }
-    io::abandon_temp_files();
-    ::_exit(128 + sig);
-  }).detach();
+  try {
+    std::thread([set] {
+      int sig = 0;
+      while (::sigwait(&set, &sig) != 0) {
+      }
+      io::abandon_temp_files();
+      ::_exit(128 + sig);
+    }).detach();
+  } catch (const std::system_error&) {
+    // No thread to wait for them: the signals keep their default action (the run ends at
+    // once and may leave its hidden temporary files, as after SIGKILL).
+    ::pthread_sigmask(SIG_UNBLOCK, &set, nullptr);
+  }
+}
+
+bool pipe_closed() {
+  sigset_t pending;
+  sigemptyset(&pending);
+  return ::sigpending(&pending) == 0 && sigismember(&pending, SIGPIPE) == 1;
+}
+
+int stop_for_closed_pipe() {
+  io::abandon_temp_files();
+  return 128 + SIGPIPE;
 }
 
 Status write_file_atomic(const std::string& path, const std::string& text) {

@@ -77,11 +77,21 @@ int check_outputs(const std::string& command, const std::vector<io::NamedPath>& 
 // being overwritten); a built-in pack's name names no file.
 void add_pack_input(std::vector<io::NamedPath>& inputs, const std::string& pack);
 
-// SIGINT, SIGTERM and SIGHUP: from now on (call before any thread starts) one thread waits
-// for them, removes every temporary output file and exits with 128 + the signal's number;
-// a set of outputs being renamed into place is completed first. Signals that were ignored
-// when evenhand started (nohup) stay ignored.
+// SIGINT, SIGTERM, SIGHUP and SIGPIPE: from now on (call before any thread starts) one
+// thread waits for them, removes every temporary output file and exits with 128 + the
+// signal's number; a set of outputs being renamed into place is completed first. Signals
+// that were ignored when evenhand started (nohup) stay ignored. A write to a closed pipe
+// then fails with EPIPE and leaves SIGPIPE pending for the writing thread (see pipe_closed).
 void install_stop_signals();
+
+// True when a write of this thread (the main thread writes every output) found its pipe
+// closed: SIGPIPE, blocked by install_stop_signals(), is pending. print_error() is then
+// silent, as a process ended by SIGPIPE would be.
+bool pipe_closed();
+
+// For a command that ended after a write to a closed pipe: removes every temporary output
+// file and returns the exit code 128 + SIGPIPE (141).
+int stop_for_closed_pipe();
 
 // Writes `text` to `path` all-or-nothing ("-" is stdout).
 Status write_file_atomic(const std::string& path, const std::string& text);

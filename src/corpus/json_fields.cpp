@@ -22,12 +22,8 @@ namespace {
 // Containers nested deeper than this are refused (the walk is recursive).
 constexpr uint32_t kMaxDepth = 1024;
 
-bool is_ws(char c) {
-  return c == ' ' || c == '\t' || c == '\n' || c == '\r';
-}
-
 std::string_view trim_right(std::string_view s) {
-  while (!s.empty() && is_ws(s.back())) s.remove_suffix(1);
+  while (!s.empty() && is_json_ws(s.back())) s.remove_suffix(1);
   return s;
 }
 
@@ -298,7 +294,7 @@ Status FieldSelector::Impl::run(std::string_view rec, std::vector<FieldMatch>& m
     return input_error(std::string("record is not a JSON object (found ") + type_name(type) + ")");
   }
   uint32_t begin = 0;
-  while (begin < rec.size() && is_ws(rec[begin])) ++begin;
+  while (begin < rec.size() && is_json_ws(rec[begin])) ++begin;
   std::string_view trimmed = trim_right(rec);
   root_end = static_cast<uint32_t>(trimmed.size());
 
@@ -352,7 +348,7 @@ uint32_t FieldSelector::Impl::container_end(od::value& v, uint32_t begin) {
   const char* loc = nullptr;
   uint32_t end = root_end;
   if (!v.current_location().get(loc)) end = static_cast<uint32_t>(loc - base);
-  while (end > begin && is_ws(base[end - 1])) --end;
+  while (end > begin && is_json_ws(base[end - 1])) --end;
   return end;
 }
 
@@ -623,14 +619,14 @@ std::string duplicate_key_reason(std::string_view key, std::string_view object_p
 void append_with_member(std::string_view record, std::string_view key, std::string_view raw_value,
                         std::string& out) {
   size_t close = record.size();
-  while (close > 0 && is_ws(record[close - 1])) --close;
+  while (close > 0 && is_json_ws(record[close - 1])) --close;
   if (close == 0 || record[close - 1] != '}') {
     out.append(record);  // not an object text: nothing to insert into
     return;
   }
   --close;  // the final '}'
   size_t prev = close;
-  while (prev > 0 && is_ws(record[prev - 1])) --prev;
+  while (prev > 0 && is_json_ws(record[prev - 1])) --prev;
   // Before the final brace stands either the end of the last member's value or, for an
   // empty object, its opening brace (no value ends with '{').
   const bool empty = prev > 0 && record[prev - 1] == '{';

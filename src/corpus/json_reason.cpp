@@ -5,18 +5,16 @@
 #include <cstring>
 #include <utility>
 
+#include "corpus/json_string.h"
+
 namespace evenhand::corpus {
 
 namespace {
 
 constexpr size_t npos = std::string_view::npos;
 
-bool is_ws(char c) {
-  return c == ' ' || c == '\t' || c == '\n' || c == '\r';
-}
-
 size_t skip_ws(std::string_view s, size_t i) {
-  while (i < s.size() && is_ws(s[i])) ++i;
+  while (i < s.size() && is_json_ws(s[i])) ++i;
   return i;
 }
 
@@ -36,7 +34,7 @@ size_t string_end(std::string_view s, size_t i) {
 size_t value_end(std::string_view s, size_t i) {
   if (s[i] == '"') return string_end(s, i);
   if (s[i] != '{' && s[i] != '[') {
-    while (i < s.size() && !is_ws(s[i]) && !std::strchr(",:[]{}\"", s[i])) ++i;
+    while (i < s.size() && !is_json_ws(s[i]) && !std::strchr(",:[]{}\"", s[i])) ++i;
     return i;
   }
   int depth = 0;
@@ -65,7 +63,7 @@ std::pair<size_t, std::string_view> non_finite(std::string_view s) {
   bool value_here = true;
   for (size_t i = 0; i < s.size(); ++i) {
     const char c = s[i];
-    if (is_ws(c)) continue;
+    if (is_json_ws(c)) continue;
     if (c == '"') {
       const size_t e = string_end(s, i);
       if (e == npos) break;

@@ -1,6 +1,7 @@
 // JSON string escaping and unescaping (RFC 8259 section 7) with a byte alignment: unescaping
 // can record, for every byte of the decoded text, where its escape sequence starts in the
-// raw token, so an edit in decoded text maps back to an exact raw byte range.
+// raw token, so an edit in decoded text maps back to an exact raw byte range. Also the one
+// test for JSON's insignificant whitespace, shared by everything that scans raw JSON text.
 #pragma once
 
 #include <cstdint>
@@ -9,6 +10,11 @@
 #include <vector>
 
 namespace evenhand::corpus {
+
+// True for the four whitespace bytes JSON allows between tokens (RFC 8259 section 2).
+inline bool is_json_ws(char c) {
+  return c == ' ' || c == '\t' || c == '\n' || c == '\r';
+}
 
 // Appends `utf8` escaped for the inside of a JSON string (no quotes): '"', '\\' and control
 // characters U+0000..U+001F are escaped (\n \r \t \b \f, else \u00XX); all other characters,

@@ -132,6 +132,120 @@ class PlainSource final : public FdSource {
   }
 };
 
+// Where the zstd decoder stands in the compressed bytes, walked from the frame and block
+// headers (RFC 8878 sections 3.1.1 to 3.1.2). The decoder is fed one part at a time (frame
+// header, block header, block body, checksum, skippable frame), never more than its own size
+// hint, so a failure belongs to the current part and is reported where its block, or for
+// frame headers and checksums its frame, starts.
+class ZstdFraming {
+ public:
+  // Bytes of the current part to feed next, from the `avail` bytes at `p` (the unconsumed
+  // input); 0 when its size needs more header bytes than are available.
+  size_t piece(const uint8_t* p, size_t avail) {
+    if (!sized_ && !size_part(p, avail)) return 0;
+    return size_t(std::min<uint64_t>(left_, avail));
+  }
+
+  // The decoder consumed `n` bytes of the current part.
+  void advance(size_t n) {
+    offset_ += n;
+    if (!sized_) return;  // a header cut short by the end of the file
+    left_ -= n;
+    while (sized_ && left_ == 0) next_part();
+  }
+
+  // Whether the current part belongs to a block (else to a frame's header or checksum), and
+  // where that block or frame starts.
+  bool in_block() const { return part_ == Part::block_header || part_ == Part::block_body; }
+  uint64_t part_owner_start() const { return in_block() ? block_start_ : frame_start_; }
+
+ private:
+  enum class Part { frame_header, block_header, block_body, checksum, skippable_body };
+
+  static uint32_t le(const uint8_t* p, int bytes) {
+    uint32_t v = 0;
+    for (int i = bytes - 1; i >= 0; --i) v = (v << 8) | p[i];
+    return v;
+  }
+
+  // Sizes a frame or block header from its first bytes; false when more are needed.
+  bool size_part(const uint8_t* p, size_t avail) {
+    if (part_ == Part::block_header) {
+      if (avail < 3) return false;
+      const uint32_t h = le(p, 3);  // Last_Block (1 bit), Block_Type (2), Block_Size (21)
+      last_block_ = (h & 1) != 0;
+      const uint32_t type = (h >> 1) & 3;
+      body_ = type == 1 ? 1 : type == 3 ? 0 : h >> 3;  // RLE: one byte; reserved: refused
+      return set_left(3);
+    }
+    if (avail < 4) return false;
+    const uint32_t magic = le(p, 4);
+    skippable_ = (magic & kZstdSkippableMask) == kZstdSkippableStart;
+    if (skippable_) {
+      if (avail < 8) return false;
+      body_ = le(p + 4, 4);  // Frame_Size
+      return set_left(8);
+    }
+    if (magic != kZstdMagic) return set_left(4);  // the decoder refuses it
+    if (avail < 5) return false;
+    // Frame_Header_Descriptor: FCS flag (2 bits), Single_Segment (1), unused, reserved,
+    // Content_Checksum (1), Dictionary_ID flag (2).
+    static constexpr int kDidBytes[4] = {0, 1, 2, 4};
+    static constexpr int kFcsBytes[4] = {0, 2, 4, 8};
+    const uint8_t fhd = p[4];
+    const bool single = (fhd & 0x20) != 0;
+    const int fcs = fhd >> 6;
+    checksum_ = (fhd & 0x04) != 0;
+    return set_left(5 + (single ? 0 : 1) + kDidBytes[fhd & 3] +
+                    (fcs == 0 && single ? 1 : kFcsBytes[fcs]));
+  }
+
+  bool set_left(uint64_t n) {
+    left_ = n;
+    sized_ = true;
+    return true;
+  }
+
+  // Enters `part`; headers are sized later from their bytes, the others by `size`.
+  void start(Part part, uint64_t size) {
+    part_ = part;
+    left_ = size;
+    sized_ = part != Part::frame_header && part != Part::block_header;
+    if (part == Part::frame_header) frame_start_ = offset_;
+    if (part == Part::block_header) block_start_ = offset_;
+  }
+
+  void next_part() {
+    switch (part_) {
+      case Part::frame_header:
+        skippable_ ? start(Part::skippable_body, body_) : start(Part::block_header, 0);
+        break;
+      case Part::block_header:
+        start(Part::block_body, body_);
+        break;
+      case Part::block_body:
+        if (!last_block_) {
+          start(Part::block_header, 0);
+        } else {
+          checksum_ ? start(Part::checksum, 4) : start(Part::frame_header, 0);
+        }
+        break;
+      case Part::checksum:
+      case Part::skippable_body:
+        start(Part::frame_header, 0);
+        break;
+    }
+  }
+
+  Part part_ = Part::frame_header;
+  uint64_t left_ = 0;    // bytes left in the current part, once sized_
+  bool sized_ = false;   // the current part's size is known
+  uint64_t offset_ = 0;  // bytes consumed
+  uint64_t frame_start_ = 0, block_start_ = 0;
+  uint64_t body_ = 0;  // size of the coming block body or skippable payload
+  bool last_block_ = false, checksum_ = false, skippable_ = false;
+};
+
 class ZstdSource final : public FdSource {
  public:
   using FdSource::FdSource;
@@ -145,21 +259,24 @@ class ZstdSource final : public FdSource {
     }
     ZSTD_outBuffer out{out_buf, size, 0};
     for (;;) {
-      if (pos_ == len_ && !eof_) {
+      const size_t avail = len_ - pos_;
+      size_t piece = framing_.piece(reinterpret_cast<const uint8_t*>(buf_.data()) + pos_, avail);
+      if ((avail == 0 || piece == 0) && !eof_) {
         if (out.pos > 0) return out.pos;  // hand over what we have before blocking on input
         EVENHAND_TRY(fill());
+        continue;
       }
-      if (pos_ == len_ && eof_ && frame_complete_) {
+      if (avail == 0 && frame_complete_) {
         if (out.pos == 0) done_ = true;
         return out.pos;
       }
-      ZSTD_inBuffer in{buf_.data() + pos_, len_ - pos_, 0};
+      if (piece == 0) piece = avail;  // a header cut short by the end of the file
+      ZSTD_inBuffer in{buf_.data() + pos_, piece, 0};
       const size_t out_before = out.pos;
       const size_t ret = ZSTD_decompressStream(ds_, &out, &in);
+      if (ZSTD_isError(ret)) return corrupt(ret);
       consume(in.pos);
-      if (ZSTD_isError(ret)) {
-        return error_at(std::string("corrupt zstd stream: ") + ZSTD_getErrorName(ret), raw_offset_);
-      }
+      framing_.advance(in.pos);
       if (in.pos > 0 || out.pos > out_before) frame_complete_ = ret == 0;
       if (out.pos == out.size) return out.pos;
       if (in.pos == 0 && out.pos == out_before && pos_ == len_ && eof_) {
@@ -171,7 +288,15 @@ class ZstdSource final : public FdSource {
   }
 
  private:
+  Error corrupt(size_t code) const {
+    return error_at(std::string("corrupt zstd stream: ") + ZSTD_getErrorName(code) +
+                        (framing_.in_block() ? " (in the block starting at this byte)"
+                                             : " (in the frame starting at this byte)"),
+                    framing_.part_owner_start());
+  }
+
   ZSTD_DStream* ds_ = nullptr;
+  ZstdFraming framing_;
   bool frame_complete_ = false;  // the last frame (if any) was fully decoded and flushed
   bool done_ = false;
 };
@@ -214,6 +339,7 @@ class GzipSource final : public FdSource {
         }
         inflateReset(&zs_);
         member_done_ = false;
+        member_start_ = raw_offset_;
       }
       zs_.next_in = reinterpret_cast<Bytef*>(buf_.data() + pos_);
       zs_.avail_in = clamp_uint(len_ - pos_);
@@ -233,7 +359,9 @@ class GzipSource final : public FdSource {
         }
       } else if (ret != Z_OK) {
         const char* msg = zs_.msg != nullptr ? zs_.msg : zError(ret);
-        return error_at(std::string("corrupt gzip stream: ") + msg, raw_offset_);
+        return error_at(
+            std::string("corrupt gzip stream: ") + msg + " (in the member starting at this byte)",
+            member_start_);
       }
       if (zs_.avail_out == 0) return out_cap;
     }
@@ -245,6 +373,7 @@ class GzipSource final : public FdSource {
   z_stream zs_;
   bool initialized_ = false;
   bool member_done_ = false;
+  uint64_t member_start_ = 0;  // raw offset of the member being inflated
   bool done_ = false;
 };
 

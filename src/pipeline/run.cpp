@@ -8,6 +8,7 @@
 #include <memory>
 #include <optional>
 #include <semaphore>
+#include <system_error>
 #include <thread>
 
 #include "audit/json_writer.h"
@@ -107,6 +108,11 @@ class Runner {
   void worker_main();
   void process_batch(Batch& b, RecordProcessor& proc);
   Status write_batch(Batch& b);
+  // Starts the workers and the reader. When the system refuses a thread, returns an error
+  // (kind output); the threads already started are left for stop_all() and joining.
+  Status start_threads(std::thread& reader, std::vector<std::thread>& workers);
+  // Writes the batches in order until the last one or the first error.
+  Status write_all(std::chrono::steady_clock::time_point t0);
   Status publish();
   void stop_all();
   BatchPtr new_batch(uint32_t input);
@@ -403,6 +409,50 @@ void Runner::stop_all() {
   tokens_->release(static_cast<std::ptrdiff_t>(max_in_flight_) + 2);
 }
 
+Status Runner::start_threads(std::thread& reader, std::vector<std::thread>& workers) {
+  // Workers first: until the reader runs they wait on the work queue, which stop_all()
+  // closes, while a reader could be blocked reading a pipe.
+  try {
+    workers.reserve(threads_);
+    for (unsigned i = 0; i < threads_; ++i) workers.emplace_back([this] { worker_main(); });
+    reader = std::thread([this] { reader_main(); });
+  } catch (const std::system_error& e) {
+    const size_t started = workers.size() + (reader.joinable() ? 1 : 0);
+    return make_error(ErrorKind::output, "",
+                      "the system refused thread " + std::to_string(started + 1) + " of " +
+                          std::to_string(threads_ + 1) + " (" + std::to_string(threads_) +
+                          " workers and a reader): " + e.what() + "; try fewer --threads");
+  }
+  return ok_status();
+}
+
+Status Runner::write_all(std::chrono::steady_clock::time_point t0) {
+  auto last_progress = t0;
+  for (uint64_t seq = 0;; ++seq) {
+    BatchPtr b = reorder_.take(seq);
+    bool last = b->last;
+    Status status = write_batch(*b);
+    uint64_t raw_pos = b->raw_pos;
+    uint64_t budgeted = b->budgeted;
+    b.reset();
+    budget_->release(budgeted);
+    tokens_->release();
+    if (!status.ok() || last) return status;
+    if (opt_.on_progress) {
+      auto now = std::chrono::steady_clock::now();
+      if (now - last_progress >= std::chrono::milliseconds(250)) {
+        last_progress = now;
+        Progress p;
+        p.records = result_.stats.records_read;
+        p.raw_bytes = raw_pos;
+        p.raw_total = raw_total_;
+        p.seconds = std::chrono::duration<double>(now - t0).count();
+        opt_.on_progress(p);
+      }
+    }
+  }
+}
+
 Result<RunResult> Runner::run() {
   auto t0 = std::chrono::steady_clock::now();
   EVENHAND_TRY(prepare());
@@ -426,37 +476,12 @@ Result<RunResult> Runner::run() {
     raw_total_ += std::filesystem::file_size(in, ec);
   }
 
-  std::thread reader([this] { reader_main(); });
+  std::thread reader;
   std::vector<std::thread> workers;
-  for (unsigned i = 0; i < threads_; ++i) workers.emplace_back([this] { worker_main(); });
-
-  Status status;
-  auto last_progress = t0;
-  for (uint64_t seq = 0;; ++seq) {
-    BatchPtr b = reorder_.take(seq);
-    bool last = b->last;
-    status = write_batch(*b);
-    uint64_t raw_pos = b->raw_pos;
-    uint64_t budgeted = b->budgeted;
-    b.reset();
-    budget_->release(budgeted);
-    tokens_->release();
-    if (!status.ok() || last) break;
-    if (opt_.on_progress) {
-      auto now = std::chrono::steady_clock::now();
-      if (now - last_progress >= std::chrono::milliseconds(250)) {
-        last_progress = now;
-        Progress p;
-        p.records = result_.stats.records_read;
-        p.raw_bytes = raw_pos;
-        p.raw_total = raw_total_;
-        p.seconds = std::chrono::duration<double>(now - t0).count();
-        opt_.on_progress(p);
-      }
-    }
-  }
+  Status status = start_threads(reader, workers);
+  if (status.ok()) status = write_all(t0);
   stop_all();
-  reader.join();
+  if (reader.joinable()) reader.join();
   for (auto& w : workers) w.join();
   if (!status.ok()) {
     for (auto* s : {&out_, &edits_, &quarantine_, &rejects_})

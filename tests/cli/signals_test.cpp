@@ -1,6 +1,7 @@
-// SIGINT, SIGTERM and SIGHUP at many points of a run, the commit included: evenhand exits with
-// 128 + the signal (or 0 when it finished first), leaves no hidden temporary file, and leaves
-// either every output complete or none. A read blocked on stdin ends too.
+// SIGINT, SIGTERM, SIGHUP and SIGPIPE at many points of a run, the commit included: evenhand
+// exits with 128 + the signal (or 0 when it finished first), leaves no hidden temporary file,
+// and leaves either every output complete or none. A read blocked on stdin ends too, and so
+// does a run whose standard output is a pipe its reader closed.
 #include <catch2/catch.hpp>
 
 #include <fcntl.h>
@@ -65,19 +66,20 @@ std::vector<std::string> run_args(const std::string& corpus) {
           "--quiet"};
 }
 
-// Starts `args` in `dir` with default signal handling, stdout and stderr to /dev/null and
-// stdin from `stdin_fd` (or /dev/null when -1).
-pid_t start(const std::string& dir, const std::vector<std::string>& args, int stdin_fd = -1) {
+// Starts `args` in `dir` with default signal handling, stdin from `stdin_fd`, stdout to
+// `stdout_fd` and stderr to `stderr_fd` (each /dev/null when -1).
+pid_t start(const std::string& dir, const std::vector<std::string>& args, int stdin_fd = -1,
+            int stdout_fd = -1, int stderr_fd = -1) {
   pid_t pid = ::fork();
   if (pid != 0) return pid;
   sigset_t none;
   sigemptyset(&none);
   ::sigprocmask(SIG_SETMASK, &none, nullptr);
-  for (int sig : {SIGINT, SIGTERM, SIGHUP}) ::signal(sig, SIG_DFL);
+  for (int sig : {SIGINT, SIGTERM, SIGHUP, SIGPIPE}) ::signal(sig, SIG_DFL);
   int null = ::open("/dev/null", O_RDWR);
   ::dup2(stdin_fd >= 0 ? stdin_fd : null, 0);
-  ::dup2(null, 1);
-  ::dup2(null, 2);
+  ::dup2(stdout_fd >= 0 ? stdout_fd : null, 1);
+  ::dup2(stderr_fd >= 0 ? stderr_fd : null, 2);
   if (::chdir(dir.c_str()) != 0) ::_exit(120);
   std::vector<char*> argv;
   for (const auto& a : args) argv.push_back(const_cast<char*>(a.c_str()));
@@ -162,7 +164,8 @@ Reference reference_run(const std::string& dir, const std::string& corpus) {
   return ref;
 }
 
-const int kSignals[] = {SIGTERM, SIGINT, SIGHUP};
+// SIGPIPE here is sent to the process (kill -PIPE); a write to a closed pipe is tested below.
+const int kSignals[] = {SIGTERM, SIGINT, SIGHUP, SIGPIPE};
 
 }  // namespace
 
@@ -179,7 +182,7 @@ TEST_CASE("a signal at any point of a run leaves every output or none, and no hi
   for (double f : {0.85, 0.9, 0.95, 1.0, 1.05, 1.1}) at.push_back(f);
   size_t complete = 0, none = 0;
   for (size_t i = 0; i < at.size(); ++i) {
-    const int sig = kSignals[i % 3];
+    const int sig = kSignals[i % std::size(kSignals)];
     INFO("signal " << sig << " after " << at[i] << " of the reference run's " << ref.seconds
                    << " s");
     pid_t pid = start(work, run_args(corpus));
@@ -255,4 +258,37 @@ TEST_CASE("a signal ends a run blocked on reading stdin and leaves nothing") {
     CHECK(std::filesystem::is_empty(work));
     clear_dir(work);
   }
+}
+
+// `run --out - | head -1`: the write to the closed pipe ends the run as SIGPIPE would (exit
+// 141, no message), but with no hidden file left and nothing under a final name.
+TEST_CASE("a closed output pipe ends the run with 141 and leaves nothing") {
+  TempDir d;
+  const std::string corpus = d.file("corpus.jsonl");
+  write_file(corpus, synthetic_corpus());
+  const std::string work = d.file("work");
+  std::filesystem::create_directory(work);
+  auto args = run_args(corpus);
+  *std::find(args.begin(), args.end(), "out.jsonl") = "-";
+  int out[2];
+  REQUIRE(::pipe2(out, O_CLOEXEC) == 0);
+  const std::string err_path = d.file("stderr");
+  const int err = ::open(err_path.c_str(), O_WRONLY | O_CREAT | O_TRUNC | O_CLOEXEC, 0644);
+  REQUIRE(err >= 0);
+  pid_t pid = start(work, args, -1, out[1], err);
+  ::close(out[1]);
+  ::close(err);
+  // Read the first line, as head -1 does, then go away.
+  std::string got;
+  char c = 0;
+  while (got.find('\n') == std::string::npos && ::read(out[0], &c, 1) == 1) got += c;
+  ::close(out[0]);
+  const int status = wait_for(pid);
+  INFO("first line: " << got << "stderr: " << read_file(err_path));
+  CHECK(got.rfind("{\"id\":", 0) == 0);
+  REQUIRE(WIFEXITED(status));
+  CHECK(WEXITSTATUS(status) == 128 + SIGPIPE);
+  CHECK(read_file(err_path).empty());
+  for (const auto& e : std::filesystem::directory_iterator(work))
+    FAIL("left in the directory: " << e.path().filename().string());
 }
