@@ -19,11 +19,12 @@ namespace evenhand {
 template <class V>
 class FlatStringMap {
  public:
-  // Room for n keys without growing.
-  void reserve(size_t n) {
+  // Room for n keys (of key_bytes bytes together, if known) without growing.
+  void reserve(size_t n, size_t key_bytes = 0) {
     size_t cap = 16;
     while (cap < 2 * n) cap <<= 1;
     if (cap > slots_.size()) rehash(cap);
+    arena_.reserve(key_bytes);
   }
 
   // Inserts key -> value; false (and no change) if the key is already there.
@@ -55,6 +56,11 @@ class FlatStringMap {
       if (s.hash == h && key_of(s) == key) return &s.value;
     }
     return nullptr;
+  }
+
+  // The value of `key` for a change while the map is built, or null.
+  V* find_for_update(std::string_view key) {
+    return const_cast<V*>(std::as_const(*this).find(key));
   }
 
   size_t size() const { return size_; }

@@ -221,7 +221,7 @@ class LexiconEngine final : public Engine {
     for (const auto& [key, v] : guards_.by_first) words_[key].guard = &v;
     for (const auto& [key, v] : protected_.by_first) words_[key].prot = &v;
     if (persons_)
-      for (const auto& w : persons_->words(en::Lexicon::mixed_name)) words_[w].mixed_name = true;
+      for (const auto& w : persons_->mixed_names()) words_[w].mixed_name = true;
     for (const auto& pair : pack_->names()) word_like_pair_.push_back(word_like(pair));
     words_.freeze();
   }
@@ -493,6 +493,9 @@ void LexiconWorker::judge_names(std::string_view text) {
   np_tokens_.clear();
   for (size_t k = 0; k < items.size(); ++k) {
     items[k].call = kNoCall;
+    // Only a word that opens with a capital (or a non-ASCII letter) can be a name or title.
+    unsigned char first = static_cast<unsigned char>(text[items[k].begin]);
+    if (items[k].kind != text::TokenKind::word || (first >= 'a' && first <= 'z')) continue;
     const pack::LexEntry* en = name_entry(k);
     if (en == nullptr) {
       if (items[k].slots) note_unswappable(text, k);

@@ -10,6 +10,8 @@
 // 3. Otherwise the default: a person, unless the name is also a common word or a thing's name.
 #include "rewrite/en/person_context.h"
 
+#include <algorithm>
+#include <array>
 #include <optional>
 #include <string>
 #include <vector>
@@ -85,10 +87,10 @@ std::optional<Error> read_records(std::string_view text, const std::string& file
 
 }  // namespace
 
-Result<std::shared_ptr<const PersonContext>> PersonContext::parse(std::string_view text,
-                                                                  const std::string& file) {
-  auto ctx = std::make_shared<PersonContext>();
-  auto error = read_records(text, file, kFormatLine, [&](std::string_view line) -> std::string {
+std::optional<Error> PersonContext::read_context(std::string_view text, const std::string& file,
+                                                 PersonContext& into) {
+  into.words_.reserve(std::count(text.begin(), text.end(), '\n'), text.size());
+  return read_records(text, file, kFormatLine, [&](std::string_view line) -> std::string {
     size_t space = line.find(' ');
     std::string_view kind = line.substr(0, space);
     std::string_view word = space == line.npos ? std::string_view() : line.substr(space + 1);
@@ -98,10 +100,27 @@ Result<std::shared_ptr<const PersonContext>> PersonContext::parse(std::string_vi
     if (k == nullptr) return "unknown kind '" + std::string(kind) + "'";
     if (!valid_word(word))
       return "'" + std::string(word) + "' is not one lower-case word without spaces";
-    ctx->lists_[static_cast<size_t>(k->list)].emplace(word);
+    into.add(word, k->list);
     return "";
   });
-  if (error) return *error;
+}
+
+void PersonContext::add(std::string_view word, Lexicon list) {
+  const uint32_t bit = 1u << static_cast<unsigned>(list);
+  uint32_t* lists = words_.find_for_update(word);
+  if (lists && (*lists & bit)) return;
+  if (lists)
+    *lists |= bit;
+  else
+    words_.emplace(word, bit);
+  ++sizes_[static_cast<size_t>(list)];
+  if (list == Lexicon::mixed_name) mixed_.emplace_back(word);
+}
+
+Result<std::shared_ptr<const PersonContext>> PersonContext::parse(std::string_view text,
+                                                                  const std::string& file) {
+  auto ctx = std::make_shared<PersonContext>();
+  if (auto error = read_context(text, file, *ctx)) return *error;
   return std::shared_ptr<const PersonContext>(std::move(ctx));
 }
 
@@ -110,25 +129,23 @@ Result<std::shared_ptr<const PersonContext>> PersonContext::from_pack(
   const std::string* text = pack.file(kPersonContextFile);
   if (text == nullptr)
     return make_error(ErrorKind::pack, pack.file_path(kPersonContextFile), "missing");
-  auto base = parse(*text, pack.file_path(kPersonContextFile));
-  const std::string* mixed = pack.file(kMixedNamesFile);
-  if (!base.ok() || mixed == nullptr) return base;
-  auto ctx = std::make_shared<PersonContext>(**base);
-  auto& names = ctx->lists_[static_cast<size_t>(Lexicon::mixed_name)];
-  auto error = read_records(*mixed, pack.file_path(kMixedNamesFile), kMixedFormatLine,
-                            [&](std::string_view line) -> std::string {
-                              if (!valid_word(line))
-                                return "'" + std::string(line) + "' is not one lower-case name";
-                              names.emplace(line);
-                              return "";
-                            });
-  if (error) return *error;
+  auto ctx = std::make_shared<PersonContext>();
+  if (auto error = read_context(*text, pack.file_path(kPersonContextFile), *ctx)) return *error;
+  if (const std::string* mixed = pack.file(kMixedNamesFile)) {
+    auto error = read_records(*mixed, pack.file_path(kMixedNamesFile), kMixedFormatLine,
+                              [&](std::string_view line) -> std::string {
+                                if (!valid_word(line))
+                                  return "'" + std::string(line) + "' is not one lower-case name";
+                                ctx->add(line, Lexicon::mixed_name);
+                                return "";
+                              });
+    if (error) return *error;
+  }
   return std::shared_ptr<const PersonContext>(std::move(ctx));
 }
 
 bool PersonContext::has(Lexicon list, std::string_view folded) const {
-  const WordSet& s = lists_[static_cast<size_t>(list)];
-  return s.find(folded) != s.end();
+  return (lists_of(folded) >> static_cast<unsigned>(list)) & 1;
 }
 
 namespace {
@@ -145,10 +162,17 @@ class Around {
   // Whether word j is in list l; a common word is also found by its singular ("Wars").
   bool has(Lexicon l, size_t j) const {
     if (!word(j)) return false;
-    if (lex_.has(l, f(j))) return true;
+    if ((lists(j) >> static_cast<unsigned>(l)) & 1) return true;
     std::string_view w = f(j);
     return l == Lexicon::common_word && w.size() > 3 && w.back() == 's' &&
            lex_.has(l, w.substr(0, w.size() - 1));
+  }
+  // The lists word j is in; looked up once per token near the name.
+  uint32_t lists(size_t j) const {
+    size_t slot = j + kWindow - s_.at;  // wraps (large) for j far before the name
+    if (slot >= cache_.size()) return lex_.lists_of(f(j));
+    if (cache_[slot] == kUnknown) cache_[slot] = lex_.lists_of(f(j));
+    return cache_[slot];
   }
   std::string_view raw(size_t j) const {
     return s_.text.substr(s_.tokens[j].begin, s_.tokens[j].end - s_.tokens[j].begin);
@@ -263,8 +287,16 @@ class Around {
   bool adjacent_any(size_t a, size_t b) const {
     return b == a + 1 && s_.tokens[a].end == s_.tokens[b].begin;
   }
+  static constexpr size_t kWindow = 8;
+  static constexpr uint32_t kUnknown = UINT32_MAX;
   const PersonContext& lex_;
   const NameSite& s_;
+  mutable std::array<uint32_t, 2 * kWindow + 1> cache_ = filled();
+  static constexpr std::array<uint32_t, 2 * kWindow + 1> filled() {
+    std::array<uint32_t, 2 * kWindow + 1> a{};
+    for (auto& v : a) v = kUnknown;
+    return a;
+  }
 };
 
 NameVerdict yes(const char* why, Evidence e = Evidence::firm) {

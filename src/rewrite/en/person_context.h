@@ -8,13 +8,14 @@
 #include <cstdint>
 #include <functional>
 #include <memory>
+#include <optional>
 #include <span>
 #include <string>
 #include <string_view>
-#include <unordered_set>
+#include <vector>
 
+#include "base/flat_map.h"
 #include "base/status.h"
-#include "base/word_hash.h"
 #include "pack/pack.h"
 #include "rewrite/field_tokens.h"
 
@@ -51,12 +52,21 @@ class PersonContext {
   // Both files of a pack: person-context.data, and mixed-names.data when the pack has it.
   static Result<std::shared_ptr<const PersonContext>> from_pack(const pack::CompiledPack& pack);
   bool has(Lexicon list, std::string_view folded) const;
-  size_t size(Lexicon list) const { return lists_[static_cast<size_t>(list)].size(); }
-  using WordSet = std::unordered_set<std::string, WordHash, std::equal_to<>>;
-  const WordSet& words(Lexicon list) const { return lists_[static_cast<size_t>(list)]; }
+  // The lists that hold `folded`, one bit per Lexicon (1 << list): one lookup for all.
+  uint32_t lists_of(std::string_view folded) const {
+    const uint32_t* m = words_.find(folded);
+    return m ? *m : 0;
+  }
+  size_t size(Lexicon list) const { return sizes_[static_cast<size_t>(list)]; }
+  const std::vector<std::string>& mixed_names() const { return mixed_; }
 
  private:
-  std::array<WordSet, static_cast<size_t>(Lexicon::count)> lists_;
+  static std::optional<Error> read_context(std::string_view text, const std::string& file,
+                                           PersonContext& into);
+  void add(std::string_view word, Lexicon list);
+  FlatStringMap<uint32_t> words_;  // word -> lists it is in
+  std::array<size_t, static_cast<size_t>(Lexicon::count)> sizes_{};
+  std::vector<std::string> mixed_;
 };
 
 // What the engine knows at one occurrence of a listed first name.
