@@ -157,6 +157,26 @@ class LexiconWorker final : public Worker {
   // Flags the record when it names such a person and other mentions were rewritten.
   void flag_unswappable(RecordResult& out) const;
   bool is_protected(uint32_t begin, uint32_t end) const;
+  // One match of the pack at an item: the longest entry (its candidates with the same words in
+  // cands_), the one chosen for the edit, and why.
+  struct Match {
+    const pack::LexEntry* first = nullptr;
+    const pack::LexEntry* chosen = nullptr;
+    size_t len = 0;       // items
+    uint32_t clitic = 0;  // bytes of a clitic kept on the last word
+    EditReason reason = EditReason::lexicon;
+    float score = 0;
+    std::string_view note;  // a name's person evidence
+  };
+  // The pack entries a word item starts (also before a trailing clitic), or null.
+  const std::vector<pack::LexEntry>* entries_at(size_t k) const;
+  Match longest_match(size_t k, const std::vector<pack::LexEntry>& entries);
+  // Decides between candidates with different forms ("her" -> his/him) by the pack's model.
+  void choose_form(size_t k, Match& m, RecordResult& out);
+  // Pushes the edit of match m at item k (with its agreement); returns the last item used.
+  size_t emit(uint32_t field, std::string_view text, size_t k, const Match& m,
+              std::string_view original, std::string_view replacement, RecordResult& out);
+  void spanish_field(uint32_t field, std::string_view text, RecordResult& out, bool guarded);
   void field_matches(uint32_t field, std::string_view text, RecordResult& out, bool guarded);
 
   const LexiconEngine& e_;
@@ -472,17 +492,8 @@ bool LexiconWorker::names_person(const pack::LexEntry& en, size_t k, std::string
 }
 
 const pack::LexEntry* LexiconWorker::name_entry(size_t k) const {
-  const Item& it = cur_->items[k];
-  if (it.kind != text::TokenKind::word) return nullptr;
-  const std::vector<pack::LexEntry>* entries = it.slots ? it.slots->lex : nullptr;
-  if (entries == nullptr) {
-    std::string_view f = folded(k);
-    size_t apos = f.rfind('\'');
-    if (apos == f.npos || apos == 0 || f.size() - apos > 3) return nullptr;
-    const WordSlots* stem = e_.words_.find(f.substr(0, apos));
-    entries = stem ? stem->lex : nullptr;
-    if (entries == nullptr) return nullptr;
-  }
+  const std::vector<pack::LexEntry>* entries = entries_at(k);
+  if (entries == nullptr) return nullptr;
   for (const auto& en : *entries)
     if (en.is_name && en.words.size() == 1) return &en;
   return nullptr;
@@ -615,72 +626,136 @@ static std::string recase(std::string_view original, std::string_view replacemen
   return out;
 }
 
+const std::vector<pack::LexEntry>* LexiconWorker::entries_at(size_t k) const {
+  if (cur_->items[k].kind != text::TokenKind::word) return nullptr;
+  if (const auto* entries = cur_->items[k].slots ? cur_->items[k].slots->lex : nullptr)
+    return entries;
+  // The word without a trailing clitic ("mother's" -> "mother"). Clitics are two or three
+  // bytes folded ('s 'd 'm, 'll 're 've).
+  std::string_view f = folded(k);
+  size_t n = f.size(), apos;
+  if (n >= 3 && f[n - 2] == '\'') {
+    apos = n - 2;
+  } else if (n >= 4 && f[n - 3] == '\'') {
+    apos = n - 3;
+  } else {
+    return nullptr;
+  }
+  const WordSlots* stem = e_.words_.find(f.substr(0, apos));  // same entries as pk.lookup()
+  return stem ? stem->lex : nullptr;
+}
+
+LexiconWorker::Match LexiconWorker::longest_match(size_t k,
+                                                  const std::vector<pack::LexEntry>& entries) {
+  Match m;
+  cands_.clear();
+  for (const auto& en : entries) {
+    if (m.first && en.words.size() < m.len) break;
+    uint32_t c;
+    size_t l = match_at(k, en.words, c);
+    if (l == 0) continue;
+    if (!m.first) {
+      m.first = &en;
+      m.len = l;
+      m.clitic = c;
+    }
+    if (en.words == m.first->words) cands_.push_back(&en);
+  }
+  return m;
+}
+
+void LexiconWorker::choose_form(size_t k, Match& m, RecordResult& out) {
+  m.reason = EditReason::context;
+  bool decided = false;
+  if (e_.model_) {
+    if (words_.empty()) {
+      words_.reserve(cur_->items.size());
+      for (size_t j = 0; j < cur_->items.size(); ++j) words_.push_back(folded(j));
+    }
+    Decision d = e_.model_->decide(words_, k);
+    pack::Tag want = d.kind == Decision::determiner ? pack::Tag::det
+                     : d.kind == Decision::object   ? pack::Tag::obj
+                                                    : pack::Tag::poss;
+    for (const auto* c : cands_) {
+      if (c->tag == want) {
+        m.chosen = c;
+        decided = true;
+        m.score = d.score;
+        break;
+      }
+    }
+  }
+  if (!decided || m.score < kLowMargin) ++out.ambiguous;
+}
+
+size_t LexiconWorker::emit(uint32_t field, std::string_view text, size_t k, const Match& m,
+                           std::string_view original, std::string_view replacement,
+                           RecordResult& out) {
+  const pack::CompiledPack& pk = *e_.pack_;
+  const pack::LexEntry* chosen = m.chosen;
+  uint16_t g = m.first->group, t = e_.target_[g];
+  size_t next = k + m.len - 1;
+  ++out.after[t];
+  Edit ed;
+  ed.field = field;
+  ed.begin = cur_->items[k].begin;
+  ed.end = ed.begin + static_cast<uint32_t>(original.size());
+  ed.replacement = recase(original, replacement);
+  ed.reason = m.reason;
+  ed.score = m.score;
+  ed.from_group = g;
+  ed.to_group = t;
+  ed.hit = chosen->is_name ? static_cast<uint32_t>(pk.sets().size() + chosen->set) : chosen->set;
+  ed.rule = chosen->is_name ? &pk.names()[chosen->set].where : &pk.sets()[chosen->set].where;
+  ed.note = m.note;
+  if (ed.replacement == original) return next;
+  uint32_t hit = ed.hit;
+  article_agreement(field, text, k, ed.replacement, out);
+  bool plural_subject = e_.verbs_ && chosen->tag == pack::Tag::subj && replacement == "they" &&
+                        e_.pack_->language() == "en";
+  if (plural_subject) {
+    next = verb_agreement(field, text, k, m.len, m.clitic, ed, out);
+  } else {
+    out.edits.push_back(std::move(ed));
+  }
+  out.entry_hits.push_back(hit);
+  return next;
+}
+
+void LexiconWorker::spanish_field(uint32_t field, std::string_view text, RecordResult& out,
+                                  bool guarded) {
+  // Noun-phrase agreement takes the whole field: determiners and adjectives are rewritten
+  // only together with the person noun they agree with.
+  np_tokens_.clear();
+  for (size_t k = 0; k < cur_->items.size(); ++k)
+    np_tokens_.push_back({cur_->items[k].begin, cur_->items[k].end, folded(k),
+                          cur_->items[k].kind == text::TokenKind::word});
+  NounPhraseAgreement::Field f{field, text, np_tokens_, cur_->spans, e_.target_, guarded};
+  e_.np_->rewrite_field(f, out);
+}
+
 void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordResult& out,
                                   bool guarded) {
-  if (e_.np_) {
-    // Noun-phrase agreement (Spanish) takes the whole field: determiners and adjectives are
-    // rewritten only together with the person noun they agree with.
-    np_tokens_.clear();
-    for (size_t k = 0; k < cur_->items.size(); ++k)
-      np_tokens_.push_back({cur_->items[k].begin, cur_->items[k].end, folded(k),
-                            cur_->items[k].kind == text::TokenKind::word});
-    NounPhraseAgreement::Field f{field, text, np_tokens_, cur_->spans, e_.target_, guarded};
-    e_.np_->rewrite_field(f, out);
-    return;
-  }
+  if (e_.np_) return spanish_field(field, text, out, guarded);
   const pack::CompiledPack& pk = *e_.pack_;
   for (size_t k = 0; k < cur_->items.size(); ++k) {
-    if (cur_->items[k].kind != text::TokenKind::word) continue;
-    const auto* entries = cur_->items[k].slots ? cur_->items[k].slots->lex : nullptr;
-    if (entries == nullptr) {
-      // Try the word without a trailing clitic ("mother's" -> "mother").
-      // Clitics are two or three bytes folded ('s 'd 'm, 'll 're 've).
-      std::string_view f = folded(k);
-      size_t n = f.size(), apos;
-      if (n >= 3 && f[n - 2] == '\'') {
-        apos = n - 2;
-      } else if (n >= 4 && f[n - 3] == '\'') {
-        apos = n - 3;
-      } else {
-        continue;
-      }
-      const WordSlots* stem = e_.words_.find(f.substr(0, apos));  // same entries as pk.lookup()
-      entries = stem ? stem->lex : nullptr;
-      if (entries == nullptr) continue;
-    }
-    // The longest entry that matches here, and every entry with the same words.
-    const pack::LexEntry* first = nullptr;
-    size_t len = 0;
-    uint32_t clitic = 0;
-    std::vector<const pack::LexEntry*>& cands = cands_;
-    cands.clear();
-    for (const auto& en : *entries) {
-      if (first && en.words.size() < len) break;
-      uint32_t c;
-      size_t l = match_at(k, en.words, c);
-      if (l == 0) continue;
-      if (!first) {
-        first = &en;
-        len = l;
-        clitic = c;
-      }
-      if (en.words == first->words) cands.push_back(&en);
-    }
-    if (!first) continue;
+    const auto* entries = entries_at(k);
+    if (entries == nullptr) continue;
+    Match m = longest_match(k, *entries);
+    if (!m.first) continue;
     uint32_t begin = cur_->items[k].begin;
-    uint32_t end = cur_->items[k + len - 1].end - clitic;
-    size_t next = k + len - 1;
+    uint32_t end = cur_->items[k + m.len - 1].end - m.clitic;
+    size_t next = k + m.len - 1;
     if (is_protected(begin, end)) {
       ++out.protected_spans;
       k = next;
       continue;
     }
     std::string_view original = text.substr(begin, end - begin);
-    std::string_view name_note;
-    if (first->is_name && !names_person(*first, k, original, &name_note)) continue;
-    uint16_t g = first->group;
+    if (m.first->is_name && !names_person(*m.first, k, original, &m.note)) continue;
+    uint16_t g = m.first->group;
     bool one_group = true;
-    for (const auto* c : cands) one_group = one_group && c->group == g;
+    for (const auto* c : cands_) one_group = one_group && c->group == g;
     if (!one_group) {
       ++out.ambiguous;
       k = next;
@@ -691,71 +766,19 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
     auto form_of = [&](const pack::LexEntry* en) -> const std::string& {
       return en->is_name ? pk.names()[en->set].names[t] : pk.sets()[en->set].forms[t];
     };
-    const pack::LexEntry* chosen = cands.front();
-    EditReason reason = first->is_name ? EditReason::name : EditReason::lexicon;
-    float score = 0;
+    m.chosen = cands_.front();
+    m.reason = m.first->is_name ? EditReason::name : EditReason::lexicon;
     bool differ = false;
-    for (const auto* c : cands) differ = differ || form_of(c) != form_of(chosen);
-    if (differ && !guarded && t != g) {
-      reason = EditReason::context;
-      bool decided = false;
-      if (e_.model_) {
-        if (words_.empty()) {
-          words_.reserve(cur_->items.size());
-          for (size_t j = 0; j < cur_->items.size(); ++j) words_.push_back(folded(j));
-        }
-        Decision d = e_.model_->decide(words_, k);
-        pack::Tag want = d.kind == Decision::determiner ? pack::Tag::det
-                         : d.kind == Decision::object   ? pack::Tag::obj
-                                                        : pack::Tag::poss;
-        for (const auto* c : cands) {
-          if (c->tag == want) {
-            chosen = c;
-            decided = true;
-            score = d.score;
-            break;
-          }
-        }
-      }
-      if (!decided || score < kLowMargin) ++out.ambiguous;
-    }
-    std::string_view replacement = form_of(chosen);
+    for (const auto* c : cands_) differ = differ || form_of(c) != form_of(m.chosen);
+    if (differ && !guarded && t != g) choose_form(k, m, out);
+    std::string_view replacement = form_of(m.chosen);
     if (e_.options_.themselves && replacement == "themself") replacement = "themselves";
     if (guarded || t == g || replacement.empty()) {
       ++out.after[g];
       k = next;
       continue;
     }
-    ++out.after[t];
-    Edit ed;
-    ed.field = field;
-    ed.begin = begin;
-    ed.end = end;
-    ed.replacement = recase(original, replacement);
-    ed.reason = reason;
-    ed.score = score;
-    ed.from_group = g;
-    ed.to_group = t;
-    uint32_t hit =
-        chosen->is_name ? static_cast<uint32_t>(pk.sets().size() + chosen->set) : chosen->set;
-    ed.rule = chosen->is_name ? &pk.names()[chosen->set].where : &pk.sets()[chosen->set].where;
-    ed.hit = hit;
-    ed.note = name_note;
-    if (ed.replacement != original) {
-      article_agreement(field, text, k, ed.replacement, out);
-      bool plural_subject = e_.verbs_ && chosen->tag == pack::Tag::subj && replacement == "they" &&
-                            e_.pack_->language() == "en";
-      size_t skip_to = next;
-      if (plural_subject) {
-        skip_to = verb_agreement(field, text, k, len, clitic, ed, out);
-      } else {
-        out.edits.push_back(std::move(ed));
-      }
-      out.entry_hits.push_back(hit);
-      k = skip_to;
-      continue;
-    }
-    k = next;
+    k = emit(field, text, k, m, original, replacement, out);
   }
 }
 
