@@ -32,8 +32,8 @@ Kinds and their method (also written into the output header, with counts):
                noun: "Brooks", "Banks", "Wells"), except the hand-listed words (HEAD_EXTRA,
                HEAD_STRONG). First names are not dropped: the engine knows its names.
   thing-name   one of the first names that WordNet also holds as a one-word capitalised noun
-               lemma (Virginia, Florence, Jordan, Stanford) in a lexicographer file of
-               THING_NAME_FILES: places and groups.
+               lemma, or as the first word of a longer one (Stanford_University), in a
+               lexicographer file of THING_NAME_FILES: places and groups.
   surname      a word that WordNet gives as the last word of a multi-word noun.person instance
                lemma (Abraham_Lincoln -> lincoln; a trailing Jr., Sr. or roman numeral is
                skipped; lemmas with an epithet "the" or "of" are skipped: Ivan_the_Terrible,
@@ -360,8 +360,11 @@ def thing_names(nouns, first_names):
         if syn.lexfile not in files:
             continue
         for lemma in syn.words:
-            if lemma[:1].isupper() and "_" not in lemma and lemma.lower() in first_names:
-                out.setdefault(lemma.lower(), set()).add(LEXFILES[syn.lexfile])
+            # "Virginia", and the first word of a place's or group's longer name
+            # ("Stanford_University"): alone after "at" or "in" it stands for the whole.
+            head = lemma.split("_")[0]
+            if head[:1].isupper() and head.lower() in first_names:
+                out.setdefault(head.lower(), set()).add(LEXFILES[syn.lexfile])
     return {k: sorted(v) for k, v in out.items()}
 
 
@@ -600,7 +603,8 @@ def render(entries, st, wn):
     files = ", ".join(LEXFILES[f] for f in THING_NAME_FILES)
     out.extend(build_names.para(
         f"thing-name ({count.get('thing-name', 0)}): a first name that WordNet also holds "
-        f"as a one-word capitalised noun lemma in {files}. Each with its files at the end."))
+        f"as a capitalised noun lemma, or as the first word of one (Stanford_University), in "
+        f"{files}. Each with its files at the end."))
     multi = sum(1 for v in sur.values() if v == "multi")
     out.extend(build_names.para(
         f"surname ({count.get('surname', 0)}): the last word of a multi-word noun.person "

