@@ -43,6 +43,7 @@ common-word hat
 common-word user
 common-word lip
 common-word refrain
+common-word then
 proper-thing norway
 surname norway
 greeting hi
