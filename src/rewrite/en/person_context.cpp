@@ -39,6 +39,7 @@ constexpr KindName kKinds[] = {
     {"place-prefix", Lexicon::place_prefix},
     {"greeting", Lexicon::greeting},
     {"word-name", Lexicon::word_name},
+    {"apposition", Lexicon::apposition},
     {"common-word", Lexicon::common_word},
     {"proper-thing", Lexicon::proper_thing},
     {"place-preposition", Lexicon::place_preposition},
@@ -339,6 +340,9 @@ std::optional<NameVerdict> thing_after(const Around& a, size_t k) {
   if (a.is(j, "&") && j > k + 1) return no("part of a firm's name");
   if (a.adjacent(k, k + 1) && is_subject_pronoun(a.f(k + 1)))
     return no("a verb before a subject pronoun");
+  if (a.adjacent(k, k + 1) &&
+      (a.is(k + 1, "me") || a.is(k + 1, "us") || a.is(k + 1, "them") || a.is(k + 1, "him")))
+    return no("a verb before an object pronoun ('Read me')");
   if (k + 1 < a.size() && a.adjacent(k, k + 1) && !a.word(k + 1) && a.raw(k + 1)[0] >= '0' &&
       a.raw(k + 1)[0] <= '9')
     return no("followed by a number: a product or version");
@@ -371,9 +375,30 @@ std::optional<NameVerdict> judge_before(const Around& a, const NameSite& s, size
   if (s.is_name && s.is_name(a.f(p)))
     return first != Evidence::none ? yes("middle name") : surname("surname after a first name");
   // "On Monday Mary", "Secretary of State Dean Rusk", "Yesterday Mary": no given name before.
-  if (a.has(Lexicon::common_word, p) || a.has(Lexicon::proper_thing, p)) return std::nullopt;
+  if (a.has(Lexicon::common_word, p) || a.has(Lexicon::proper_thing, p)) {
+    if (first == Evidence::none && a.has(Lexicon::common_word, p) && !a.sentence_start(p))
+      return no("inside a capitalised phrase ('the Hilltop Barn')", Evidence::some);
+    return std::nullopt;
+  }
   if (first != Evidence::none) return yes("first name after a capitalised word", first);
   return surname("after a capitalised word: surname or part of a longer name");
+}
+
+// A verb right after the name makes it its subject ("Mark pilots", "Mark swept", "Anna
+// leading"); a plural noun there is what the name modifies ("Mac users").
+std::optional<NameVerdict> verb_after(const Around& a, const NameSite& s, size_t k,
+                                      bool possessive) {
+  size_t n = k + 1;
+  if (!s.verbs || possessive || !a.adjacent(k, n) || !a.word(n) || a.capital(n))
+    return std::nullopt;
+  std::string_view w = a.f(n);
+  bool third = s.verbs->is_third_singular(w);
+  if (a.plural_noun(n) && !third)
+    return no("a plural noun follows: the name modifies it ('Mac users')", Evidence::some);
+  if (third || s.verbs->is_present_participle(w) ||
+      (s.verbs->is_past_participle(w) && !s.verbs->is_base_form(w)))
+    return yes("a verb follows ('Mark pilots')", Evidence::some);
+  return std::nullopt;
 }
 
 // Rule 2 for the words after the name.
@@ -390,9 +415,9 @@ std::optional<NameVerdict> judge_after(const Around& a, const NameSite& s, size_
   };
   if (a.is(k + 1, "and") && joined(k + 2)) return yes("joined to another person");
   bool possessive = a.f(k).ends_with("'s") || a.f(k).ends_with("\xE2\x80\x99s");
-  if (s.is_third_singular && !possessive && a.plural_noun(k + 1) && a.adjacent(k, k + 1) &&
-      !s.is_third_singular(a.f(k + 1)))
-    return no("a plural noun follows: the name modifies it ('Mac users')", Evidence::some);
+  if (auto v = verb_after(a, s, k, possessive)) return *v;
+  if (a.is(k + 1, ",") && a.word(k + 2) && !a.capital(k + 2) && a.has(Lexicon::apposition, k + 2))
+    return yes("an apposition follows ('Grace, one of our volunteers')", Evidence::some);
   if (a.is(k + 1, "(") && (a.is(k + 2, "a") || a.is(k + 2, "an") || a.is(k + 2, "the")))
     return yes("a description in brackets follows", Evidence::some);
   if (common && a.adjacent(k, k + 1) && a.capital(k + 1) && a.has(Lexicon::common_word, k + 1))
@@ -418,8 +443,11 @@ NameVerdict judge_name(const PersonContext& lexicons, const NameSite& site) {
   if (a.attribution(k) && a.adjacent(k, k + 1) && a.capital(k + 1))
     return yes("opens an attribution or signature");
   if (a.quoted_title(k)) return no("opens a quoted title in an attribution");
-  // A name that is also a greeting ("Hi") is a common word too.
-  const bool common = site.word_like || lexicons.has(Lexicon::greeting, a.f(k));
+  // A name that is also a greeting ("Hi") is a common word too, and the greeting itself at
+  // the start of a line.
+  const bool greeting = lexicons.has(Lexicon::greeting, a.f(k));
+  if (greeting && a.line_start(k)) return no("a greeting");
+  const bool common = site.word_like || greeting;
   if (a.all_caps(k) && !a.all_caps_around(k)) return no("written in capitals: an acronym");
   if (auto v = thing_after(a, k)) return *v;
   if (auto v = judge_before(a, site, k)) return *v;

@@ -17,6 +17,7 @@
 #include "base/flat_map.h"
 #include "base/status.h"
 #include "pack/pack.h"
+#include "rewrite/en/verb_agreement.h"
 #include "rewrite/field_tokens.h"
 
 namespace evenhand::rewrite::en {
@@ -40,6 +41,7 @@ enum class Lexicon : uint8_t {
   common_word,        // a common lower-case word of English: "hat", "star"
   proper_thing,       // a single-word name of a place, organisation or thing: "Norway", "Monday"
   place_preposition,  // "at", "in": a thing-name after one reads as the place
+  apposition,         // opens a description after "Name,": "one", "a", "our"
   mixed_name,         // a first name both sexes carry (mixed-names.data): never swapped
   count
 };
@@ -81,8 +83,8 @@ struct NameSite {
   // Whether a folded word is a listed first name, and whether it is a person word of the pack
   // ("brother", "wife").
   std::function<bool(std::string_view)> is_name, is_person_word;
-  // Whether a folded word is a third-person singular verb form ("sings"); null: unknown.
-  std::function<bool(std::string_view)> is_third_singular;
+  // The pack's verb forms (verbs.data), to tell "Mark pilots" from "Mac users"; may be null.
+  const VerbTable* verbs = nullptr;
 };
 
 // How sure a verdict is: `none` is the default for a name with nothing around it, `some`
