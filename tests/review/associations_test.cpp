@@ -1,9 +1,13 @@
 // The association audit (review/associations.h): the statistic on a hand-computed example,
-// the counting of contexts, the permutation test, the shipped target list, and the property
-// that two-sided augmentation (run through the CLI) leaves no skew between the swapped pair.
+// the counting of contexts, group words that are exactly the rewrite engine's mentions
+// (protected spans, --protect, person evidence, guards, multiword forms), the permutation
+// test, the shipped target list, and the property that two-sided augmentation (run through
+// the CLI) leaves no skew between the swapped pair.
 #include <catch2/catch.hpp>
 
+#include <algorithm>
 #include <cmath>
+#include <filesystem>
 
 #include "review/associations.h"
 #include "rewrite/engine.h"
@@ -406,4 +410,37 @@ TEST_CASE("two-sided augmentation through the CLI drives every target's skew to 
   CHECK(measured == 9);       // eight occupations and "driver"
   CHECK(skewed_before == 8);  // every occupation was skewed before
   CHECK(r->corpora[1].context[0] == r->corpora[1].context[1]);
+}
+
+TEST_CASE("associations --protect: the run's patterns keep mentions out, a bad one is refused") {
+  // An invented demo record: "Duke" (a male form of the pack) inside a street name.
+  TempDir d;
+  write_file(d.file("in.jsonl"), "{\"text\": \"She walked to Duke Street with the nurse.\"}\n");
+  write_file(d.file("targets.txt"), "nurse\n");
+  std::string common = "associations --pack en-gender --in " + d.file("in.jsonl") + " --targets " +
+                       d.file("targets.txt") + " --permutations 0";
+  auto ran = evenhand::testing::run_evenhand(d, common + " --out " + d.file("plain.json"));
+  REQUIRE(ran.code == 0);
+  ran = evenhand::testing::run_evenhand(
+      d, common + " --protect 'Duke Street' --out " + d.file("protected.json"));
+  REQUIRE(ran.code == 0);
+  auto plain = review::read_associations(d.file("plain.json"));
+  auto prot = review::read_associations(d.file("protected.json"));
+  REQUIRE(plain.ok());
+  REQUIRE(prot.ok());
+  // By hand, window 10: without the pattern, She and Duke are group words (N = 6, both
+  // groups see all six); with it, Duke is a word of the female context (N = 7).
+  const auto& p = plain->corpora[0];
+  const auto& q = prot->corpora[0];
+  CHECK(p.words == 6);
+  CHECK(p.context == std::vector<uint64_t>{6, 6, 0});
+  CHECK(q.words == 7);
+  CHECK(q.context == std::vector<uint64_t>{7, 0, 0});
+  CHECK(q.targets[0].y == std::vector<uint64_t>{1, 0, 0});
+
+  ran = evenhand::testing::run_evenhand(d, common + " --protect '(' --out " + d.file("bad.json"));
+  CHECK(ran.code == 2);
+  CHECK(ran.err.find("protected pattern 1") != std::string::npos);
+  CHECK(std::count(ran.err.begin(), ran.err.end(), '\n') == 1);
+  CHECK_FALSE(std::filesystem::exists(d.file("bad.json")));
 }
