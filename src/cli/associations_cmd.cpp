@@ -99,6 +99,7 @@ int associations_command(const std::vector<std::string>& args) {
   rep.groups = pack->groups();
   rep.targets = *targets;
   rep.options = ao;
+  rep.protect = protect;
   for (int which = 0; which < 2; ++which) {
     const auto& paths = which == 0 ? before : after;
     if (paths.empty()) continue;

@@ -345,6 +345,9 @@ std::string render_associations(const AssociationReport& r) {
   w.key("prior").value(r.options.prior);
   w.key("permutations").value(static_cast<uint64_t>(r.options.permutations));
   w.key("seed").value(r.options.seed);
+  w.key("protect").begin_array();
+  for (const auto& p : r.protect) w.value(p);
+  w.end_array();
   w.end_object();
   w.key("targets").begin_object();
   w.key("source").value(r.targets.source);
@@ -447,6 +450,12 @@ Result<AssociationReport> read_associations(const std::string& path) {
   r.options.prior = dget(m, "prior");
   r.options.permutations = static_cast<uint32_t>(uget(m, "permutations"));
   r.options.seed = uget(m, "seed");
+  if (!m["protect"].get_array().get(arr))  // absent in files written before it was added
+    for (element x : arr) {
+      std::string_view v;
+      if (x.get_string().get(v)) return fail("'method.protect' holds a non-string");
+      r.protect.emplace_back(v);
+    }
   r.targets.source = sget(doc["targets"], "source");
   if (doc["targets"]["words"].get_array().get(arr)) return fail("'targets.words' is missing");
   for (element t : arr) {

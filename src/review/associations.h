@@ -127,6 +127,7 @@ struct AssociationReport {
   std::vector<std::string> groups;
   TargetList targets;
   AssociationOptions options;
+  std::vector<std::string> protect;         // the --protect patterns the engine applied
   std::vector<CorpusAssociations> corpora;  // before, then after when measured
 };
 

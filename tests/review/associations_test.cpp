@@ -348,6 +348,7 @@ TEST_CASE("JSON round trip of an association report") {
   r.groups = pk->groups();
   r.targets = t;
   r.options.permutations = 9;
+  r.protect = {"Duke Street", "[0-9]+"};
   r.corpora.push_back(review::compute_associations(counter.counts(), r.options));
   r.corpora.back().label = "before";
   TempDir d;
@@ -355,6 +356,7 @@ TEST_CASE("JSON round trip of an association report") {
   auto back = review::read_associations(d.file("a.json"));
   REQUIRE(back.ok());
   CHECK(review::render_associations(*back) == review::render_associations(r));
+  CHECK(back->protect == r.protect);
   write_file(d.file("bad.json"), "{\"schema\": \"other\"}");
   auto bad = review::read_associations(d.file("bad.json"));
   REQUIRE_FALSE(bad.ok());
@@ -437,6 +439,8 @@ TEST_CASE("associations --protect: the run's patterns keep mentions out, a bad o
   CHECK(q.words == 7);
   CHECK(q.context == std::vector<uint64_t>{7, 0, 0});
   CHECK(q.targets[0].y == std::vector<uint64_t>{1, 0, 0});
+  CHECK(prot->protect == std::vector<std::string>{"Duke Street"});
+  CHECK(plain->protect.empty());
 
   ran = evenhand::testing::run_evenhand(d, common + " --protect '(' --out " + d.file("bad.json"));
   CHECK(ran.code == 2);
