@@ -5,6 +5,7 @@
 
 #include "cli/cli.h"
 #include "cli/common.h"
+#include "cli/corpus_args.h"
 #include "cli/pack_load.h"
 #include "cli/review_args.h"
 #include "io/source.h"
@@ -16,7 +17,7 @@ namespace evenhand::cli {
 int associations_command(const std::vector<std::string>& args) {
   po::options_description opts("Options");
   std::string pack_name, targets_path, out, format;
-  std::vector<std::string> before, after, fields;
+  std::vector<std::string> before, after, fields, protect;
   bool paragraphs = false;
   review::AssociationOptions ao;
   // clang-format off
@@ -35,6 +36,7 @@ int associations_command(const std::vector<std::string>& args) {
     ("seed", whole_number("--seed", &ao.seed, 0, UINT64_MAX), "seed of the permutation test, 0 to 2^64-1 (default 0)")
     ("out", po::value(&out), "write the JSON here ('-' is stdout)");
   // clang-format on
+  add_protect_option(opts, protect);
   po::variables_map vm;
   int rc =
       parse_args("associations", "--pack PACK --in CORPUS [--after AUGMENTED] --out ASSOC.json",
@@ -59,6 +61,12 @@ int associations_command(const std::vector<std::string>& args) {
   auto pk = load_full_pack(pack_name, problems);
   if (!pk.ok()) return report_pack_problems(problems, pk.error());
   std::shared_ptr<const pack::CompiledPack> pack = pk->pack;
+  // The engine finds the group words (its mentions), with the run's protected spans.
+  rewrite::EngineOptions eo;
+  eo.protect_patterns = protect;
+  auto made = rewrite::make_engine(pack, std::move(pk->engine_data), eo);
+  if (!made.ok()) return report(made.error());
+  std::shared_ptr<const rewrite::Engine> engine = std::move(*made);
 
   std::optional<review::TargetList> targets = std::move(pk->targets);
   if (targets_path.empty()) {
@@ -91,10 +99,11 @@ int associations_command(const std::vector<std::string>& args) {
   rep.groups = pack->groups();
   rep.targets = *targets;
   rep.options = ao;
+  rep.protect = protect;
   for (int which = 0; which < 2; ++which) {
     const auto& paths = which == 0 ? before : after;
     if (paths.empty()) continue;
-    review::CooccurrenceCounter counter(pack, rep.targets, ao.window);
+    review::CooccurrenceCounter counter(engine, rep.targets, ao.window);
     std::vector<std::pair<std::string, std::string>> inputs;
     for (const auto& p : paths) {
       auto sha = review::for_each_fields(

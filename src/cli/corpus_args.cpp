@@ -62,13 +62,20 @@ void add_corpus_options(po::options_description& opts, CorpusArgs& a) {
     ("on-bad-record", po::value(&a.on_bad), "fail (default), skip, or quarantine (copy raw lines to --quarantine)")
     ("quarantine", po::value(&ro.quarantine_path), "file for rejected records' raw lines")
     ("rejects", po::value(&ro.rejects_path), "write one JSON line per rejected record (file, line, reason) here")
-    ("max-record-bytes", po::value(&a.max_bytes), "reject records longer than this, 1 to 2G (default 16M; K, M, G suffixes)")
-    ("protect", po::value(&a.protect)->composing(), "ICU regular expression of spans never to rewrite; repeatable")
+    ("max-record-bytes", po::value(&a.max_bytes), "reject records longer than this, 1 to 2G (default 16M; K, M, G suffixes)");
+  add_protect_option(opts, a.protect);
+  opts.add_options()
     ("toward", po::value(&a.toward), "rewrite the other groups' forms toward this group only (e.g. neutral); default: swap the pack's first two groups")
     ("themselves", po::bool_switch(&a.themselves), "English neutral: write 'themselves' instead of 'themself'")
     ("on-flagged", po::value(&a.on_flagged), "a counterfactual whose agreement cannot be settled: original (write the original only; default), counterfactual (write it anyway, flagged in --provenance), reject (as a bad record)")
     ("quiet,q", po::bool_switch(&a.quiet), "print nothing but errors");
   // clang-format on
+}
+
+void add_protect_option(po::options_description& opts, std::vector<std::string>& patterns) {
+  opts.add_options()("protect", po::value(&patterns)->composing(),
+                     "ICU regular expression of spans never to rewrite nor count as mentions; "
+                     "repeatable");
 }
 
 int finish_corpus_args(const std::string& cmd, CorpusArgs& a) {

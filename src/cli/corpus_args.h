@@ -35,6 +35,11 @@ struct CorpusArgs {
 // Adds the shared options to `opts`, bound to `a`.
 void add_corpus_options(po::options_description& opts, CorpusArgs& a);
 
+// Adds --protect (user patterns of protected spans, rewrite::EngineOptions::protect_patterns),
+// bound to `patterns`: one of the shared options, also taken by `associations` so that it
+// counts the mentions a run with the same patterns counts.
+void add_protect_option(po::options_description& opts, std::vector<std::string>& patterns);
+
 // Checks the parsed options and fills a.ro. Returns -1 to go on, else the exit code.
 int finish_corpus_args(const std::string& command, CorpusArgs& a);
 

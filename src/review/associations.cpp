@@ -7,11 +7,11 @@
 #include <map>
 #include <random>
 #include <set>
+#include <tuple>
 #include <unordered_map>
 
 #include "audit/json_writer.h"
 #include "evenhand/version.h"
-#include "text/case.h"
 #include "text/tokenize.h"
 
 namespace evenhand::review {
@@ -96,7 +96,9 @@ Result<TargetList> parse_targets(std::string_view text, const std::string& sourc
 // Counting
 
 struct CooccurrenceCounter::Impl {
-  std::shared_ptr<const pack::CompiledPack> pack;
+  std::shared_ptr<const rewrite::Engine> engine;
+  std::unique_ptr<rewrite::Worker> worker;
+  rewrite::RecordResult result;  // lists the mentions the engine counts (list_mentions)
   size_t window;
   struct Hash {
     using is_transparent = void;
@@ -107,93 +109,62 @@ struct CooccurrenceCounter::Impl {
   text::Tokenizer tokenizer;
   std::vector<text::Token> tokens;
 
-  struct Item {
-    std::string_view text;
+  struct Word {
     std::string folded;
-    bool word = false;
-    int64_t wpos = -1;   // word position (word tokens only)
-    int32_t group = -1;  // group of the mention this item belongs to
+    int32_t group = -1;  // group of the mention this word belongs to
   };
-  std::vector<Item> items;
+  std::vector<Word> words;    // the word tokens of one field
+  std::vector<int64_t> dist;  // [word * groups + g]: words to the nearest word of group g
 
-  bool matches(size_t k, const pack::LexEntry& e) const {
-    if (k + e.words.size() > items.size()) return false;
-    for (size_t j = 0; j < e.words.size(); ++j) {
-      const std::string& f = items[k + j].folded;
-      if (f == e.words[j]) continue;
-      // a clitic on the last word of the form ("mother's")
-      if (j + 1 == e.words.size() && strip_clitic(f) == e.words[j]) continue;
-      return false;
+  // Fills `words` with the field's word tokens, each marked with the group of the engine's
+  // mention that overlaps it (`mentions`: this field's, sorted by begin). A mention's range
+  // may leave out a trailing clitic ("mother" of "mother's"); a multiword mention marks each
+  // of its words, so the window reaches from either end of it.
+  void read_words(std::string_view text, std::span<const rewrite::RecordResult::Mention> mentions) {
+    tokenizer.tokenize_without_space(text, tokens);
+    words.clear();
+    size_t m = 0;
+    for (const auto& t : tokens) {
+      if (t.kind != text::TokenKind::word) continue;
+      Word w;
+      w.folded = pack::fold_word(text.substr(t.begin, t.end - t.begin));
+      while (m < mentions.size() && mentions[m].end <= t.begin) ++m;
+      if (m < mentions.size() && mentions[m].begin < t.end) w.group = mentions[m].group;
+      words.push_back(std::move(w));
     }
-    if (e.is_name && text::case_pattern(items[k].text) == text::CasePattern::lower) return false;
-    return true;
   }
 
-  void add_field(std::string_view text, CooccurrenceCounts::Record& rec,
-                 std::map<uint32_t, std::vector<uint32_t>>& ys) {
-    tokenizer.tokenize(text, tokens);
-    items.clear();
-    int64_t wpos = 0;
-    for (const auto& t : tokens) {
-      if (t.kind == text::TokenKind::space) continue;
-      Item it;
-      it.text = text.substr(t.begin, t.end - t.begin);
-      it.folded = pack::fold_word(it.text);
-      it.word = t.kind == text::TokenKind::word;
-      if (it.word) it.wpos = wpos++;
-      items.push_back(std::move(it));
-    }
-    // Group words: longest entry first at each item.
-    for (size_t k = 0; k < items.size();) {
-      size_t len = 0;
-      int32_t group = -1;
-      if (items[k].word) {
-        std::string_view key = items[k].folded;
-        const auto* entries = pack->lookup(key);
-        std::string_view stem = strip_clitic(key);
-        if (!entries && !stem.empty()) entries = pack->lookup(stem);
-        if (entries)
-          for (const auto& e : *entries)
-            if (matches(k, e)) {
-              len = e.words.size();
-              group = e.group;
-              break;
-            }
-      }
-      if (len == 0) {
-        ++k;
-        continue;
-      }
-      for (size_t j = k; j < k + len; ++j) items[j].group = group;
-      k += len;
-    }
-    // Distance (in words) from every word to the nearest word of each group.
-    size_t G = counts.groups;
-    std::vector<int64_t> words_at;  // item index of each word position
-    for (size_t k = 0; k < items.size(); ++k)
-      if (items[k].word) words_at.push_back(static_cast<int64_t>(k));
-    size_t W = words_at.size();
+  // Fills `dist` for the field's words.
+  void measure_distances() {
+    size_t G = counts.groups, W = words.size();
     const int64_t far = INT64_MAX / 4;
-    std::vector<int64_t> dist(W * G, far);
+    dist.assign(W * G, far);
     for (size_t g = 0; g < G; ++g) {
       int64_t last = -far;
       for (size_t p = 0; p < W; ++p) {
-        if (items[words_at[p]].group == static_cast<int32_t>(g)) last = static_cast<int64_t>(p);
+        if (words[p].group == static_cast<int32_t>(g)) last = static_cast<int64_t>(p);
         dist[p * G + g] = static_cast<int64_t>(p) - last;
       }
       last = far;
       for (size_t p = W; p-- > 0;) {
-        if (items[words_at[p]].group == static_cast<int32_t>(g)) last = static_cast<int64_t>(p);
+        if (words[p].group == static_cast<int32_t>(g)) last = static_cast<int64_t>(p);
         dist[p * G + g] = std::min(dist[p * G + g], last - static_cast<int64_t>(p));
       }
     }
-    for (size_t p = 0; p < W; ++p) {
-      const Item& it = items[words_at[p]];
-      if (it.group >= 0) continue;  // group words are not context
+  }
+
+  void add_field(std::string_view text, std::span<const rewrite::RecordResult::Mention> mentions,
+                 CooccurrenceCounts::Record& rec, std::map<uint32_t, std::vector<uint32_t>>& ys) {
+    read_words(text, mentions);
+    measure_distances();
+    size_t G = counts.groups;
+    for (size_t p = 0; p < words.size(); ++p) {
+      const Word& w = words[p];
+      if (w.group >= 0) continue;  // group words are not context
       ++counts.words;
-      auto t = target_of.find(it.folded);
+      auto t = target_of.find(w.folded);
       if (t == target_of.end()) {
-        std::string_view stem = strip_clitic(it.folded);
+        std::string_view stem = strip_clitic(w.folded);
         if (!stem.empty()) t = target_of.find(stem);
       }
       if (t != target_of.end()) ++counts.occurrences[t->second];
@@ -210,15 +181,17 @@ struct CooccurrenceCounter::Impl {
   }
 };
 
-CooccurrenceCounter::CooccurrenceCounter(std::shared_ptr<const pack::CompiledPack> pack,
+CooccurrenceCounter::CooccurrenceCounter(std::shared_ptr<const rewrite::Engine> engine,
                                          const TargetList& targets, size_t window)
     : impl_(std::make_unique<Impl>()) {
-  impl_->pack = std::move(pack);
+  impl_->engine = std::move(engine);
+  impl_->worker = impl_->engine->make_worker();
+  impl_->result.list_mentions = true;
   impl_->window = window;
   for (uint32_t t = 0; t < targets.variants.size(); ++t)
     for (const auto& v : targets.variants[t]) impl_->target_of.emplace(v, t);
   auto& c = impl_->counts;
-  c.groups = impl_->pack->groups().size();
+  c.groups = impl_->engine->pack()->groups().size();
   c.occurrences.assign(targets.labels.size(), 0);
   c.context_total.assign(c.groups, 0);
   c.target_total.assign(targets.labels.size(), std::vector<uint64_t>(c.groups, 0));
@@ -232,7 +205,17 @@ void CooccurrenceCounter::add_record(std::span<const std::string_view> fields) {
   CooccurrenceCounts::Record rec;
   rec.context.assign(c.groups, 0);
   std::map<uint32_t, std::vector<uint32_t>> ys;
-  for (auto f : fields) impl_->add_field(f, rec, ys);
+  impl_->worker->rewrite(fields, impl_->result);
+  auto& mentions = impl_->result.mentions;
+  std::sort(mentions.begin(), mentions.end(), [](const auto& x, const auto& y) {
+    return std::tie(x.field, x.begin) < std::tie(y.field, y.begin);
+  });
+  size_t m = 0;
+  for (uint32_t f = 0; f < fields.size(); ++f) {
+    size_t first = m;
+    while (m < mentions.size() && mentions[m].field == f) ++m;
+    impl_->add_field(fields[f], std::span(mentions).subspan(first, m - first), rec, ys);
+  }
   bool any = false;
   for (size_t g = 0; g < c.groups; ++g) {
     c.context_total[g] += rec.context[g];
@@ -362,6 +345,9 @@ std::string render_associations(const AssociationReport& r) {
   w.key("prior").value(r.options.prior);
   w.key("permutations").value(static_cast<uint64_t>(r.options.permutations));
   w.key("seed").value(r.options.seed);
+  w.key("protect").begin_array();
+  for (const auto& p : r.protect) w.value(p);
+  w.end_array();
   w.end_object();
   w.key("targets").begin_object();
   w.key("source").value(r.targets.source);
@@ -464,6 +450,12 @@ Result<AssociationReport> read_associations(const std::string& path) {
   r.options.prior = dget(m, "prior");
   r.options.permutations = static_cast<uint32_t>(uget(m, "permutations"));
   r.options.seed = uget(m, "seed");
+  if (!m["protect"].get_array().get(arr))  // absent in files written before it was added
+    for (element x : arr) {
+      std::string_view v;
+      if (x.get_string().get(v)) return fail("'method.protect' holds a non-string");
+      r.protect.emplace_back(v);
+    }
   r.targets.source = sget(doc["targets"], "source");
   if (doc["targets"]["words"].get_array().get(arr)) return fail("'targets.words' is missing");
   for (element t : arr) {

@@ -15,6 +15,7 @@
 
 #include "base/status.h"
 #include "pack/pack.h"
+#include "rewrite/engine.h"
 
 namespace evenhand::review {
 
@@ -55,18 +56,23 @@ struct CooccurrenceCounts {
   std::vector<std::vector<uint64_t>> target_total;  // [target][group]: sum of y
 };
 
-// Counts co-occurrences record by record. Group words are the pack's set forms (matched
-// case-insensitively, multiword forms included, a trailing clitic allowed) and its first
-// names (when capitalised). Not copyable; not thread-safe.
+// Counts co-occurrences record by record. Group words are the mentions the rewrite engine
+// counts in RecordResult::before (listed with RecordResult::list_mentions), so the audit, a
+// run and `tally` count the same mentions: set forms and names as the engine matches them,
+// names only with the engine's person evidence, nothing inside a protected span. A guarded
+// record's mentions count too (the engine counts them without rewriting them): they are
+// mentions, and the audit measures the text as it is. Not copyable; not thread-safe.
 class CooccurrenceCounter {
  public:
-  CooccurrenceCounter(std::shared_ptr<const pack::CompiledPack> pack, const TargetList& targets,
+  // `engine`: one made by rewrite::make_engine (it has a pack), kept alive by the counter.
+  CooccurrenceCounter(std::shared_ptr<const rewrite::Engine> engine, const TargetList& targets,
                       size_t window);
   ~CooccurrenceCounter();
   CooccurrenceCounter(const CooccurrenceCounter&) = delete;
   CooccurrenceCounter& operator=(const CooccurrenceCounter&) = delete;
 
-  // Adds one record (its selected string fields; a window never crosses fields).
+  // Adds one record (its selected string fields, valid UTF-8 each; a window never crosses
+  // fields).
   void add_record(std::span<const std::string_view> fields);
   const CooccurrenceCounts& counts() const;
 
@@ -121,6 +127,7 @@ struct AssociationReport {
   std::vector<std::string> groups;
   TargetList targets;
   AssociationOptions options;
+  std::vector<std::string> protect;         // the --protect patterns the engine applied
   std::vector<CorpusAssociations> corpora;  // before, then after when measured
 };
 

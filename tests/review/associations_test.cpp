@@ -1,12 +1,18 @@
 // The association audit (review/associations.h): the statistic on a hand-computed example,
-// the counting of contexts, the permutation test, the shipped target list, and the property
-// that two-sided augmentation (run through the CLI) leaves no skew between the swapped pair.
+// the counting of contexts, group words that are exactly the rewrite engine's mentions
+// (protected spans, --protect, person evidence, guards, multiword forms), the permutation
+// test, the shipped target list, and the property that two-sided augmentation (run through
+// the CLI) leaves no skew between the swapped pair.
 #include <catch2/catch.hpp>
 
+#include <algorithm>
 #include <cmath>
+#include <filesystem>
 
 #include "review/associations.h"
+#include "rewrite/engine.h"
 #include "support/temp_dir.h"
+#include "text/tokenize.h"
 
 using namespace evenhand;
 using evenhand::testing::read_file;
@@ -23,10 +29,57 @@ std::shared_ptr<const pack::CompiledPack> en_pack() {
   return *p;
 }
 
+// The engine a run makes from the pack (with the run's --protect patterns).
+std::shared_ptr<const rewrite::Engine> en_engine(const std::vector<std::string>& protect = {}) {
+  rewrite::EngineOptions eo;
+  eo.protect_patterns = protect;
+  auto e = rewrite::make_engine(en_pack(), eo);
+  REQUIRE(e.ok());
+  return std::move(*e);
+}
+
 review::TargetList targets(const std::string& text) {
   auto t = review::parse_targets(text, "test");
   REQUIRE(t.ok());
   return *t;
+}
+
+// One record counted alone by a counter over `engine` (target nurse, window 10), what the
+// engine itself reports for the record, and the number of word tokens in its fields.
+struct Alone {
+  review::CooccurrenceCounts counts;
+  rewrite::RecordResult engine;
+  uint64_t word_tokens = 0;
+};
+
+Alone count_alone(const std::shared_ptr<const rewrite::Engine>& engine,
+                  std::span<const std::string_view> fields) {
+  Alone a;
+  review::CooccurrenceCounter counter(engine, targets("nurse\n"), 10);
+  counter.add_record(fields);
+  a.counts = counter.counts();
+  a.engine.list_mentions = true;
+  engine->make_worker()->rewrite(fields, a.engine);
+  text::Tokenizer tokenizer;
+  std::vector<text::Token> tokens;
+  for (auto f : fields) {
+    tokenizer.tokenize(f, tokens);
+    for (const auto& t : tokens) a.word_tokens += t.kind == text::TokenKind::word;
+  }
+  return a;
+}
+
+// The counter's group words are the engine's mentions: with one-word mentions, the words it
+// leaves out of N are as many as the engine counts in `before`, and a group has context
+// exactly when the engine counts a mention of it.
+void check_same_mentions(const Alone& a) {
+  uint64_t mentions = 0;
+  for (auto n : a.engine.before) mentions += n;
+  CHECK(a.word_tokens - a.counts.words == mentions);
+  for (size_t g = 0; g < a.engine.before.size(); ++g) {
+    INFO("group " << g);
+    CHECK((a.counts.context_total[g] > 0) == (a.engine.before[g] > 0));
+  }
 }
 
 }  // namespace
@@ -66,7 +119,7 @@ TEST_CASE("contexts are counted in a window of words around each group's words")
   //   delta = 0.318454, var = 1/2 + 1/2 = 1, z = 0.318454
   auto pk = en_pack();
   auto t = targets("nurse nurses\nmechanic\nsurgeon\n");
-  review::CooccurrenceCounter counter(pk, t, 3);
+  review::CooccurrenceCounter counter(en_engine(), t, 3);
   std::string_view field = "She thanked the nurse and he met a mechanic";
   counter.add_record(std::span(&field, 1));
   const auto& c = counter.counts();
@@ -94,7 +147,7 @@ TEST_CASE("contexts are counted in a window of words around each group's words")
 TEST_CASE("group words: multiword forms, clitics, names only when capitalised") {
   auto pk = en_pack();
   auto t = targets("nurse\n");
-  review::CooccurrenceCounter counter(pk, t, 1);
+  review::CooccurrenceCounter counter(en_engine(), t, 1);
   // "mother's" is a female form with a clitic; "emma" in lower case is not a name;
   // "nurse's" counts as the target nurse.
   std::string_view fields[] = {"mother's nurse's", "emma nurse", "Emma nurse"};
@@ -106,10 +159,113 @@ TEST_CASE("group words: multiword forms, clitics, names only when capitalised") 
   CHECK(c.words == 4);  // nurse's, emma, nurse, nurse
 }
 
+TEST_CASE("group words are the engine's mentions: protected spans are not group words") {
+  // Invented demo sentences, for the mechanics. Each holds a group form inside a span the
+  // engine protects: a protected phrase of the pack (en-gender protect.txt), a URL, inline
+  // code. The engine counts no mention there, so neither does the counter (before, it
+  // matched the pack's lexicon itself and took them for group words).
+  auto engine = en_engine();
+  auto f = *engine->pack()->group_index("female"), m = *engine->pack()->group_index("male");
+  for (std::string_view field :
+       {"Mother Nature sent rain on the nurse.", "See https://example.org/she/nurse for the rota.",
+        "Type `his` and then ask the nurse."}) {
+    INFO(field);
+    Alone a = count_alone(engine, std::span(&field, 1));
+    CHECK(a.engine.before[f] == 0);
+    CHECK(a.engine.before[m] == 0);
+    CHECK(a.engine.protected_spans >= 1);
+    check_same_mentions(a);
+    CHECK(a.counts.words == a.word_tokens);  // every word is a word of the corpus
+    CHECK(a.counts.context_total[f] + a.counts.context_total[m] == 0);
+  }
+}
+
+TEST_CASE("group words are the engine's mentions: the user's protect patterns apply") {
+  // Invented demo sentence: "Duke" is a male form of the pack, inside a street name that a
+  // --protect pattern covers.
+  std::string_view field = "She walked to Duke Street with the nurse.";
+  auto plain = en_engine(), guarded = en_engine({"Duke Street"});
+  auto f = *plain->pack()->group_index("female"), m = *plain->pack()->group_index("male");
+  Alone a = count_alone(plain, std::span(&field, 1));
+  CHECK(a.engine.before[f] == 1);
+  CHECK(a.engine.before[m] == 1);
+  check_same_mentions(a);
+  Alone b = count_alone(guarded, std::span(&field, 1));
+  CHECK(b.engine.before[f] == 1);
+  CHECK(b.engine.before[m] == 0);
+  check_same_mentions(b);
+  // By hand, window 10: She(0, female) walked to Duke Street with the nurse: N = 7 words,
+  // all in the female context, none in the male one.
+  CHECK(b.counts.words == 7);
+  CHECK(b.counts.context_total[f] == 7);
+  CHECK(b.counts.context_total[m] == 0);
+  CHECK(b.counts.target_total[0][f] == 1);
+}
+
+TEST_CASE("group words are the engine's mentions: first names need its person evidence") {
+  // Invented demo sentences. "Will" and "Hope" are listed first names (en-gender names.txt)
+  // that are also common words; at a sentence start before "you" they are not people, and
+  // the engine counts no mention, so the counter (which before took any capitalised listed
+  // name for a group word) counts none either. As a vocative after "Dear", "Hope" names a
+  // person and counts.
+  auto engine = en_engine();
+  auto f = *engine->pack()->group_index("female"), m = *engine->pack()->group_index("male");
+  for (std::string_view field :
+       {"Will you call the nurse before noon?", "Hope you can ask the nurse."}) {
+    INFO(field);
+    Alone a = count_alone(engine, std::span(&field, 1));
+    CHECK(a.engine.before[f] + a.engine.before[m] == 0);
+    check_same_mentions(a);
+    CHECK(a.counts.words == a.word_tokens);
+  }
+  std::string_view dear = "Dear Hope, the nurse called.";
+  Alone a = count_alone(engine, std::span(&dear, 1));
+  CHECK(a.engine.before[f] == 1);
+  check_same_mentions(a);
+  CHECK(a.counts.target_total[0][f] == 1);
+}
+
+TEST_CASE("group words are the engine's mentions: guarded records count theirs") {
+  // Invented demo sentence with a guard phrase of the pack (en-gender guards.txt, medical):
+  // the engine counts the record's mentions but does not rewrite them, and the audit counts
+  // them as mentions too (README: the audit measures the text as it is).
+  auto engine = en_engine();
+  auto f = *engine->pack()->group_index("female");
+  std::string_view field = "She is pregnant and saw the nurse.";
+  Alone a = count_alone(engine, std::span(&field, 1));
+  REQUIRE(a.engine.guard != nullptr);
+  CHECK(a.engine.edits.empty());
+  CHECK(a.engine.before[f] == 1);
+  check_same_mentions(a);
+  CHECK(a.counts.target_total[0][f] == 1);
+}
+
+TEST_CASE("group words are the engine's mentions: a multiword mention is one group word") {
+  // Invented demo sentences. "flight attendant" is one neutral form of the pack: the engine
+  // lists it as one mention over both words, and neither word is context. Across fields, the
+  // counter takes each field's own mentions (a window never crosses fields).
+  auto engine = en_engine();
+  auto n = *engine->pack()->group_index("neutral"), f = *engine->pack()->group_index("female");
+  std::string_view fields[] = {"The nurse thanked her.", "The flight attendant asked the nurse."};
+  Alone a = count_alone(engine, fields);
+  REQUIRE(a.engine.mentions.size() == 2);
+  CHECK(a.engine.mentions[1].field == 1);
+  CHECK(fields[1].substr(a.engine.mentions[1].begin,
+                         a.engine.mentions[1].end - a.engine.mentions[1].begin) ==
+        "flight attendant");
+  // By hand, window 10: field 0 has The nurse thanked (female context: 3 words, nurse 1);
+  // field 1 has The, asked, the, nurse (neutral context: 4 words, nurse 1).
+  CHECK(a.word_tokens - a.counts.words == 3);  // her, flight, attendant
+  CHECK(a.counts.context_total[f] == 3);
+  CHECK(a.counts.context_total[n] == 4);
+  CHECK(a.counts.target_total[0][f] == 1);
+  CHECK(a.counts.target_total[0][n] == 1);
+}
+
 TEST_CASE("permutation test: seeded, p = 1 without skew, small with a strong one") {
-  auto pk = en_pack();
   auto t = targets("nurse\nmechanic\n");
-  review::CooccurrenceCounter skewed(pk, t, 5), even(pk, t, 5);
+  auto engine = en_engine();
+  review::CooccurrenceCounter skewed(engine, t, 5), even(engine, t, 5);
   for (int i = 0; i < 30; ++i) {
     std::string_view a = "She is the nurse on the ward", b = "He is the mechanic in the shop";
     skewed.add_record(std::span(&a, 1));
@@ -184,7 +340,7 @@ TEST_CASE("the shipped target list holds no form or name of the pack") {
 TEST_CASE("JSON round trip of an association report") {
   auto pk = en_pack();
   auto t = targets("nurse\nchef\n");
-  review::CooccurrenceCounter counter(pk, t, 4);
+  review::CooccurrenceCounter counter(en_engine(), t, 4);
   std::string_view f = "She asked the nurse and he asked the chef";
   counter.add_record(std::span(&f, 1));
   review::AssociationReport r;
@@ -192,6 +348,7 @@ TEST_CASE("JSON round trip of an association report") {
   r.groups = pk->groups();
   r.targets = t;
   r.options.permutations = 9;
+  r.protect = {"Duke Street", "[0-9]+"};
   r.corpora.push_back(review::compute_associations(counter.counts(), r.options));
   r.corpora.back().label = "before";
   TempDir d;
@@ -199,6 +356,7 @@ TEST_CASE("JSON round trip of an association report") {
   auto back = review::read_associations(d.file("a.json"));
   REQUIRE(back.ok());
   CHECK(review::render_associations(*back) == review::render_associations(r));
+  CHECK(back->protect == r.protect);
   write_file(d.file("bad.json"), "{\"schema\": \"other\"}");
   auto bad = review::read_associations(d.file("bad.json"));
   REQUIRE_FALSE(bad.ok());
@@ -254,4 +412,39 @@ TEST_CASE("two-sided augmentation through the CLI drives every target's skew to 
   CHECK(measured == 9);       // eight occupations and "driver"
   CHECK(skewed_before == 8);  // every occupation was skewed before
   CHECK(r->corpora[1].context[0] == r->corpora[1].context[1]);
+}
+
+TEST_CASE("associations --protect: the run's patterns keep mentions out, a bad one is refused") {
+  // An invented demo record: "Duke" (a male form of the pack) inside a street name.
+  TempDir d;
+  write_file(d.file("in.jsonl"), "{\"text\": \"She walked to Duke Street with the nurse.\"}\n");
+  write_file(d.file("targets.txt"), "nurse\n");
+  std::string common = "associations --pack en-gender --in " + d.file("in.jsonl") + " --targets " +
+                       d.file("targets.txt") + " --permutations 0";
+  auto ran = evenhand::testing::run_evenhand(d, common + " --out " + d.file("plain.json"));
+  REQUIRE(ran.code == 0);
+  ran = evenhand::testing::run_evenhand(
+      d, common + " --protect 'Duke Street' --out " + d.file("protected.json"));
+  REQUIRE(ran.code == 0);
+  auto plain = review::read_associations(d.file("plain.json"));
+  auto prot = review::read_associations(d.file("protected.json"));
+  REQUIRE(plain.ok());
+  REQUIRE(prot.ok());
+  // By hand, window 10: without the pattern, She and Duke are group words (N = 6, both
+  // groups see all six); with it, Duke is a word of the female context (N = 7).
+  const auto& p = plain->corpora[0];
+  const auto& q = prot->corpora[0];
+  CHECK(p.words == 6);
+  CHECK(p.context == std::vector<uint64_t>{6, 6, 0});
+  CHECK(q.words == 7);
+  CHECK(q.context == std::vector<uint64_t>{7, 0, 0});
+  CHECK(q.targets[0].y == std::vector<uint64_t>{1, 0, 0});
+  CHECK(prot->protect == std::vector<std::string>{"Duke Street"});
+  CHECK(plain->protect.empty());
+
+  ran = evenhand::testing::run_evenhand(d, common + " --protect '(' --out " + d.file("bad.json"));
+  CHECK(ran.code == 2);
+  CHECK(ran.err.find("protected pattern 1") != std::string::npos);
+  CHECK(std::count(ran.err.begin(), ran.err.end(), '\n') == 1);
+  CHECK_FALSE(std::filesystem::exists(d.file("bad.json")));
 }
