@@ -214,7 +214,7 @@ TEST_CASE("a verb after a name makes it a subject, a plural noun is what it modi
   // A few verbs in the format of rules/en-gender/verbs.data (built from WordNet 3.0).
   auto verbs = rewrite::VerbTable::parse(
       "format evenhand-verbs 1\nv sing sings sang,sung singing\nv sweep sweeps swept sweeping\n"
-      "v lead leads led leading\n");
+      "v lead leads led leading\nv meet meets met meeting\n");
   REQUIRE(verbs.ok());
   const rewrite::VerbTable* v = verbs->get();
   // source: Debian package fortunes, file "debian"
@@ -225,6 +225,7 @@ TEST_CASE("a verb after a name makes it a subject, a plural noun is what it modi
   CHECK(judge("Then Will sings the refrain.", "Will", 0, v).person);
   CHECK(judge("and Will swept at the back", "Will", 0, v).person);
   CHECK(judge("Is Will leading on Sunday?", "Will", 0, v).person);
+  CHECK(judge("The nurse met Will at the door", "Will", 0, v).person);
   // from memory (common practice): an imperative before an object pronoun; a greeting
   CHECK_FALSE(judge("Will me the house.", "Will", 0, v).person);
   CHECK_FALSE(judge("Hi, my grandmother can't come.", "Hi", 0, v).person);

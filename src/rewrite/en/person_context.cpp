@@ -371,6 +371,10 @@ std::optional<NameVerdict> judge_before(const Around& a, const NameSite& s, size
                                    : surname("surname after an initial");
   if (!stop && s.is_person_word && s.is_person_word(a.f(p)) && !a.capital(p))
     return yes("after a person word");
+  if (!stop && !a.capital(p) && s.verbs &&
+      (s.verbs->is_third_singular(a.f(p)) ||
+       (s.verbs->is_past_participle(a.f(p)) && !s.verbs->is_base_form(a.f(p)))))
+    return yes("the object of a verb ('met Grace')", Evidence::some);
   if (stop || !a.capital(p)) return std::nullopt;
   if (s.is_name && s.is_name(a.f(p)))
     return first != Evidence::none ? yes("middle name") : surname("surname after a first name");
