@@ -16,6 +16,7 @@
 #include <string>
 #include <vector>
 
+#include "pack/data_records.h"
 #include "text/case.h"
 
 namespace evenhand::rewrite::en {
@@ -52,58 +53,25 @@ bool valid_word(std::string_view w) {
   return true;
 }
 
-// Reads the records of a data file that opens with `format`: calls `take` with each line that
-// is not empty or a comment; `take` returns a reason to stop with an error naming the line.
-template <typename Take>
-std::optional<Error> read_records(std::string_view text, const std::string& file,
-                                  std::string_view format, Take take) {
-  uint64_t line_no = 0;
-  bool have_format = false;
-  auto fail = [&](std::string reason) {
-    Error e = make_error(ErrorKind::pack, file, std::move(reason));
-    if (line_no) e.line = line_no;
-    return e;
-  };
-  for (size_t pos = 0; pos < text.size();) {
-    size_t end = text.find('\n', pos);
-    std::string_view line = text.substr(pos, end == text.npos ? text.npos : end - pos);
-    pos = end == text.npos ? text.size() : end + 1;
-    ++line_no;
-    if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
-    if (line.empty() || line[0] == '#') continue;
-    if (!have_format && line != format)
-      return fail("the first record must be '" + std::string(format) + "'");
-    if (!have_format) {
-      have_format = true;
-      continue;
-    }
-    if (std::string reason = take(line); !reason.empty()) return fail(std::move(reason));
-  }
-  if (!have_format) {
-    line_no = 0;
-    return fail("empty: no '" + std::string(format) + "' line");
-  }
-  return std::nullopt;
-}
-
 }  // namespace
 
 std::optional<Error> PersonContext::read_context(std::string_view text, const std::string& file,
                                                  PersonContext& into) {
   into.words_.reserve(std::count(text.begin(), text.end(), '\n'), text.size());
-  return read_records(text, file, kFormatLine, [&](std::string_view line) -> std::string {
-    size_t space = line.find(' ');
-    std::string_view kind = line.substr(0, space);
-    std::string_view word = space == line.npos ? std::string_view() : line.substr(space + 1);
-    const KindName* k = nullptr;
-    for (const auto& kn : kKinds)
-      if (kn.name == kind) k = &kn;
-    if (k == nullptr) return "unknown kind '" + std::string(kind) + "'";
-    if (!valid_word(word))
-      return "'" + std::string(word) + "' is not one lower-case word without spaces";
-    into.add(word, k->list);
-    return "";
-  });
+  return pack::read_data_records(
+      text, file, kFormatLine, [&](std::string_view line) -> std::string {
+        size_t space = line.find(' ');
+        std::string_view kind = line.substr(0, space);
+        std::string_view word = space == line.npos ? std::string_view() : line.substr(space + 1);
+        const KindName* k = nullptr;
+        for (const auto& kn : kKinds)
+          if (kn.name == kind) k = &kn;
+        if (k == nullptr) return "unknown kind '" + std::string(kind) + "'";
+        if (!valid_word(word))
+          return "'" + std::string(word) + "' is not one lower-case word without spaces";
+        into.add(word, k->list);
+        return "";
+      });
 }
 
 void PersonContext::add(std::string_view word, Lexicon list) {
@@ -133,13 +101,14 @@ Result<std::shared_ptr<const PersonContext>> PersonContext::from_pack(
   auto ctx = std::make_shared<PersonContext>();
   if (auto error = read_context(*text, pack.file_path(kPersonContextFile), *ctx)) return *error;
   if (const std::string* mixed = pack.file(kMixedNamesFile)) {
-    auto error = read_records(*mixed, pack.file_path(kMixedNamesFile), kMixedFormatLine,
-                              [&](std::string_view line) -> std::string {
-                                if (!valid_word(line))
-                                  return "'" + std::string(line) + "' is not one lower-case name";
-                                ctx->add(line, Lexicon::mixed_name);
-                                return "";
-                              });
+    auto error =
+        pack::read_data_records(*mixed, pack.file_path(kMixedNamesFile), kMixedFormatLine,
+                                [&](std::string_view line) -> std::string {
+                                  if (!valid_word(line))
+                                    return "'" + std::string(line) + "' is not one lower-case name";
+                                  ctx->add(line, Lexicon::mixed_name);
+                                  return "";
+                                });
     if (error) return *error;
   }
   return std::shared_ptr<const PersonContext>(std::move(ctx));

@@ -1,5 +1,7 @@
 #include "rewrite/en/verb_agreement.h"
 
+#include "pack/data_records.h"
+
 #include <algorithm>
 #include <array>
 #include <utility>
@@ -144,81 +146,57 @@ VerbTable::Entry& VerbTable::add(std::string_view form) {
   return words_.emplace(std::string(form), Entry{}).first->second;
 }
 
+std::string VerbTable::read_v(const std::vector<std::string_view>& fields) {
+  if (fields.size() != 5)
+    return "a 'v' record has 5 fields (v LEMMA 3SG PAST ING), found " +
+           std::to_string(fields.size());
+  std::string_view lemma = fields[1];
+  if (!valid_form(lemma)) return "bad lemma '" + std::string(lemma) + "'";
+  Entry& base = add(lemma);
+  if (base.flags & kBase) return "lemma '" + std::string(lemma) + "' listed twice";
+  base.flags |= kBase;
+  uint32_t index = static_cast<uint32_t>(lemmas_.size());
+  lemmas_.emplace_back(lemma);
+  static constexpr std::array<uint8_t, 3> kKinds = {kThird, kPast, kIng};
+  for (size_t k = 0; k < 3; ++k) {
+    for (std::string_view form : split(fields[2 + k], ',')) {
+      if (!valid_form(form))
+        return "bad form '" + std::string(form) + "' of lemma '" + std::string(lemma) + "'";
+      Entry& e = add(form);
+      e.flags |= kKinds[k];
+      if (kKinds[k] != kThird) continue;
+      if (e.third_lemmas == 0) {
+        e.lemma = index;
+        e.third_lemmas = 1;
+      } else if (e.lemma != index && e.third_lemmas == 1) {
+        e.other_lemma = index;
+        e.third_lemmas = 2;
+      }
+    }
+  }
+  return "";
+}
+
+std::string VerbTable::read_a(const std::vector<std::string_view>& fields) {
+  if (fields.size() != 2)
+    return "an 'a' record has 2 fields (a FORM), found " + std::to_string(fields.size());
+  auto it = words_.find(fields[1]);
+  if (it == words_.end() || !(it->second.flags & kPast))
+    return "'" + std::string(fields[1]) +
+           "' is marked as an adjective but is not a past form of an earlier 'v' record";
+  it->second.flags |= kAdjPast;
+  return "";
+}
+
 Result<std::shared_ptr<const VerbTable>> VerbTable::parse(std::string_view text, std::string file) {
   std::shared_ptr<VerbTable> table(new VerbTable());
-  uint64_t line_no = 0;
-  bool have_format = false;
-  auto fail = [&](std::string reason) {
-    Error e = make_error(ErrorKind::pack, file, std::move(reason));
-    if (line_no) e.line = line_no;  // 0: the file as a whole
-    return e;
-  };
-  size_t pos = 0;
-  while (pos < text.size()) {
-    size_t end = text.find('\n', pos);
-    std::string_view line = text.substr(pos, end == text.npos ? text.npos : end - pos);
-    pos = end == text.npos ? text.size() : end + 1;
-    ++line_no;
-    if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
-    if (line.empty() || line[0] == '#') continue;
-    if (!have_format) {
-      if (line != kFormatLine) {
-        return fail("the first record must be '" + std::string(kFormatLine) + "', found '" +
-                    std::string(line) + "'");
-      }
-      have_format = true;
-      continue;
-    }
+  auto take = [&](std::string_view line) -> std::string {
     std::vector<std::string_view> fields = split(line, ' ');
-    if (fields[0] == "v") {
-      if (fields.size() != 5) {
-        return fail("a 'v' record has 5 fields (v LEMMA 3SG PAST ING), found " +
-                    std::to_string(fields.size()));
-      }
-      std::string_view lemma = fields[1];
-      if (!valid_form(lemma)) return fail("bad lemma '" + std::string(lemma) + "'");
-      Entry& base = table->add(lemma);
-      if (base.flags & kBase) return fail("lemma '" + std::string(lemma) + "' listed twice");
-      base.flags |= kBase;
-      uint32_t index = static_cast<uint32_t>(table->lemmas_.size());
-      table->lemmas_.emplace_back(lemma);
-      static constexpr std::array<uint8_t, 3> kKinds = {kThird, kPast, kIng};
-      for (size_t k = 0; k < 3; ++k) {
-        for (std::string_view form : split(fields[2 + k], ',')) {
-          if (!valid_form(form)) {
-            return fail("bad form '" + std::string(form) + "' of lemma '" + std::string(lemma) +
-                        "'");
-          }
-          Entry& e = table->add(form);
-          e.flags |= kKinds[k];
-          if (kKinds[k] != kThird) continue;
-          if (e.third_lemmas == 0) {
-            e.lemma = index;
-            e.third_lemmas = 1;
-          } else if (e.lemma != index && e.third_lemmas == 1) {
-            e.other_lemma = index;
-            e.third_lemmas = 2;
-          }
-        }
-      }
-    } else if (fields[0] == "a") {
-      if (fields.size() != 2) {
-        return fail("an 'a' record has 2 fields (a FORM), found " + std::to_string(fields.size()));
-      }
-      auto it = table->words_.find(fields[1]);
-      if (it == table->words_.end() || !(it->second.flags & kPast)) {
-        return fail("'" + std::string(fields[1]) +
-                    "' is marked as an adjective but is not a past form of an earlier 'v' record");
-      }
-      it->second.flags |= kAdjPast;
-    } else {
-      return fail("unknown record type '" + std::string(fields[0]) + "'");
-    }
-  }
-  if (!have_format) {
-    line_no = 0;
-    return fail("no '" + std::string(kFormatLine) + "' record");
-  }
+    if (fields[0] == "v") return table->read_v(fields);
+    if (fields[0] == "a") return table->read_a(fields);
+    return "unknown record type '" + std::string(fields[0]) + "'";
+  };
+  if (auto error = pack::read_data_records(text, file, kFormatLine, take)) return *error;
   return std::shared_ptr<const VerbTable>(std::move(table));
 }
 

@@ -132,6 +132,9 @@ class VerbTable {
   };
   const Entry* find(std::string_view folded) const;
   Entry& add(std::string_view form);
+  // One record of verbs.data ("v LEMMA 3SG PAST ING", "a FORM"): "" or what is wrong.
+  std::string read_v(const std::vector<std::string_view>& fields);
+  std::string read_a(const std::vector<std::string_view>& fields);
 
   std::vector<std::string> lemmas_;
   std::unordered_map<std::string, Entry, Hash, std::equal_to<>> words_;
