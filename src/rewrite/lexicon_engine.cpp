@@ -584,8 +584,9 @@ void LexiconWorker::settle_names() {
     if (c.verdict.place) places.push_back(c.name);
     if (c.verdict.person && c.verdict.evidence != en::Evidence::none) persons.push_back(c.name);
   }
+  for (auto* v : {&surnames, &places, &persons}) std::sort(v->begin(), v->end());
   auto in = [](const std::vector<std::string_view>& v, std::string_view w) {
-    return std::find(v.begin(), v.end(), w) != v.end();
+    return std::binary_search(v.begin(), v.end(), w);
   };
   for (NameCall& c : calls_) {
     if (c.verdict.evidence == en::Evidence::firm) continue;

@@ -302,13 +302,16 @@ Evidence surname_after(const Around& a, size_t k) {
 }
 
 // Rule 1, the part that looks right of the name.
-std::optional<NameVerdict> thing_after(const Around& a, size_t k) {
+std::optional<NameVerdict> thing_after(const Around& a, size_t k, bool common) {
   size_t j = k + 1;
   for (; j < k + 5 && a.adjacent(j - 1, j) && a.capital(j); ++j)
     if (a.has(Lexicon::thing_head, j)) return no("part of a place or organisation's name");
   if (a.is(j, "&") && j > k + 1) return no("part of a firm's name");
   if (a.adjacent(k, k + 1) && is_subject_pronoun(a.f(k + 1)))
     return no("a verb before a subject pronoun");
+  if (common && a.adjacent(k, k + 1) &&
+      (a.is(k + 1, "the") || a.is(k + 1, "a") || a.is(k + 1, "an")))
+    return no("a common word before an article ('Will the meeting')", Evidence::some);
   if (a.adjacent(k, k + 1) &&
       (a.is(k + 1, "me") || a.is(k + 1, "us") || a.is(k + 1, "them") || a.is(k + 1, "him")))
     return no("a verb before an object pronoun ('Read me')");
@@ -413,16 +416,16 @@ std::optional<NameVerdict> judge_after(const Around& a, const NameSite& s, size_
 NameVerdict judge_name(const PersonContext& lexicons, const NameSite& site) {
   Around a(lexicons, site);
   const size_t k = site.at;
-  if (a.attribution(k) && a.adjacent(k, k + 1) && a.capital(k + 1))
-    return yes("opens an attribution or signature");
-  if (a.quoted_title(k)) return no("opens a quoted title in an attribution");
   // A name that is also a greeting ("Hi") is a common word too, and the greeting itself at
   // the start of a line.
   const bool greeting = lexicons.has(Lexicon::greeting, a.f(k));
   if (greeting && a.line_start(k)) return no("a greeting");
   const bool common = site.word_like || greeting;
+  if (a.attribution(k) && a.adjacent(k, k + 1) && a.capital(k + 1))
+    return yes("opens an attribution or signature");
+  if (a.quoted_title(k)) return no("opens a quoted title in an attribution");
   if (a.all_caps(k) && !a.all_caps_around(k)) return no("written in capitals: an acronym");
-  if (auto v = thing_after(a, k)) return *v;
+  if (auto v = thing_after(a, k, common)) return *v;
   if (auto v = judge_before(a, site, k)) return *v;
   size_t p = a.word_before(k);
   if (p != SIZE_MAX && p >= 2 && a.f(p) == "of" && a.capital(p - 1) && !a.sentence_start(p - 1))
