@@ -76,11 +76,20 @@ bool verb_ending(std::string_view w) {
 
 Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pack(
     std::shared_ptr<const pack::CompiledPack> shared) {
+  return from_pack(std::move(shared), {});
+}
+
+Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pack(
+    std::shared_ptr<const pack::CompiledPack> shared,
+    const std::map<std::string, std::string, std::less<>>& replaced) {
   std::shared_ptr<NounPhraseAgreement> t(new NounPhraseAgreement());
   const pack::CompiledPack& p = *shared;
   t->pack_ = std::move(shared);
   t->set_roles_.assign(p.sets().size(), 0);
-  auto need = [&](const char* name) -> const std::string* { return p.file(name); };
+  auto need = [&](const char* name) -> const std::string* {
+    auto it = replaced.find(name);
+    return it != replaced.end() ? &it->second : p.file(name);
+  };
   for (const char* f : {kNounPhraseFile, kAdjectivesFile, kNounsFile, kStressedFile}) {
     if (!need(f))
       return make_error(ErrorKind::pack, p.file_path(f),
@@ -90,7 +99,7 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
 
   // noun-phrase.data
   bool genders = false;
-  for (const auto& d : data_lines(*p.file(kNounPhraseFile))) {
+  for (const auto& d : data_lines(*need(kNounPhraseFile))) {
     const std::string& kind = d.f[0];
     auto err = [&](std::string why) { return line_error(p, kNounPhraseFile, d.line, why); };
     if (!genders && kind != "genders") return err("the first entry must be the genders line");
@@ -142,7 +151,7 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
   if (!genders) return line_error(p, kNounPhraseFile, 0, "no genders line");
 
   // adjectives.data: rules first (adj lines use them), then the rest in order.
-  auto adj_lines = data_lines(*p.file(kAdjectivesFile));
+  auto adj_lines = data_lines(*need(kAdjectivesFile));
   for (const auto& d : adj_lines) {
     if (d.f[0] != "rule") continue;
     if (d.f.size() != 5)
@@ -224,7 +233,7 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
   }
 
   // common-gender.data
-  for (const auto& d : data_lines(*p.file(kNounsFile))) {
+  for (const auto& d : data_lines(*need(kNounsFile))) {
     if (d.f.size() != 3 || (d.f[0] != "common" && d.f[0] != "epicene-f" && d.f[0] != "epicene-m"))
       return line_error(p, kNounsFile, d.line, "expected KIND SINGULAR PLURAL");
     NounKind k = d.f[0] == "common" ? NounKind::common : NounKind::epicene;
@@ -232,7 +241,7 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
     t->nouns_[d.f[2]] = Noun{k, true};
   }
   // stressed-a.data: the nouns (singular); exceptions simply are not listed as nouns.
-  for (const auto& d : data_lines(*p.file(kStressedFile))) {
+  for (const auto& d : data_lines(*need(kStressedFile))) {
     if (d.f.size() != 3 || (d.f[0] != "noun" && d.f[0] != "exception"))
       return line_error(p, kStressedFile, d.line, "expected noun SG PL or exception WORD KIND");
     if (d.f[0] == "noun") t->stressed_a_[pack::fold_word(d.f[1])] = true;
