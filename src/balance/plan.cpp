@@ -129,7 +129,6 @@ namespace {
 constexpr double kSlack = 1e-9;
 constexpr uint64_t kNone = std::numeric_limits<uint64_t>::max();
 constexpr size_t kMoves = 3;  // flip, add, drop
-constexpr Action kMoveAction[kMoves] = {Action::flip, Action::add, Action::drop};
 
 using Vec = std::vector<double>;
 
