@@ -5,6 +5,7 @@
 #include <sstream>
 
 #include "text/case.h"
+#include "text/utf8.h"
 
 namespace evenhand::rewrite {
 
@@ -34,6 +35,18 @@ std::vector<DataLine> data_lines(const std::string& text) {
     if (!d.f.empty()) out.push_back(std::move(d));
   }
   return out;
+}
+
+// The number of the first line of `text` that is not valid UTF-8, or 0 when every line is.
+uint32_t first_non_utf8_line(std::string_view text) {
+  uint32_t n = 0;
+  for (size_t pos = 0; pos < text.size();) {
+    size_t end = std::min(text.find('\n', pos), text.size());
+    ++n;
+    if (!text::valid_utf8(text.substr(pos, end - pos))) return n;
+    pos = end + 1;
+  }
+  return 0;
 }
 
 Error line_error(const pack::CompiledPack& p, const std::string& file, uint32_t line,
@@ -95,6 +108,9 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
       return make_error(ErrorKind::pack, p.file_path(f),
                         std::string("missing: noun-phrase agreement (switched on by ") +
                             kNounPhraseFile + ") needs it");
+    // Forms are spliced into the output: a byte that is not UTF-8 would make it invalid.
+    if (uint32_t line = first_non_utf8_line(*need(f)))
+      return line_error(p, f, line, "not valid UTF-8");
   }
 
   // noun-phrase.data
