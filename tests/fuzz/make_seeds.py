@@ -70,7 +70,8 @@ def container(files):
 
 def seeds(src):
     s = {t: [] for t in ('records', 'tokenize', 'pack', 'possessive_model', 'verbs_data',
-                          'targets_data', 'noun_phrase_data', 'rewrite', 'audit_log')}
+                          'targets_data', 'noun_phrase_data', 'rewrite', 'audit_log',
+                          'person_context')}
     samples = os.path.join(src, 'samples')
     rules = os.path.join(src, 'rules')
     tests = os.path.join(src, 'tests')
@@ -132,6 +133,17 @@ def seeds(src):
     for step in (1, 37, 211):
         s['verbs_data'].append(b''.join(body[:1] + body[1::step][:300]))
     s['verbs_data'].append(b''.join(verbs[:40] + body[:50]))
+
+    # person_context: slices of person-context.data (format line, every n-th record), alone and
+    # followed by "%%" and a sample paragraph or test sentence to judge.
+    context = read(os.path.join(rules, 'en-gender', 'person-context.data')).splitlines(True)
+    records = [l for l in context if not l.startswith(b'#')]
+    paragraphs = [p for t in texts for p in t.split(b'\n\n')[:10]] + sentences[:40]
+    for i, step in enumerate((97, 251, 1009)):
+        part = b''.join(records[:1] + records[1::step])
+        s['person_context'].append(part)
+        s['person_context'] += [part + b'%%\n' + p for p in paragraphs[i::3]]
+    s['person_context'].append(b''.join(context[:60] + records[1:200]))
 
     s['targets_data'].append(read(os.path.join(rules, 'en-gender', 'targets.data')))
 

@@ -308,3 +308,20 @@ TEST_CASE("a noun-phrase data file with a problem names file and line", "[rewrit
   CHECK(e.error().line.has_value());
   CHECK(e.error().reason.find("nadie") != std::string::npos);
 }
+
+TEST_CASE("a noun-phrase data file that is not UTF-8 is refused with its line",
+          "[rewrite][spanish]") {
+  // Found by the noun_phrase_data fuzz target: a rule ending of one byte 0xDF made the
+  // predicate "optimista" come out as "optimist\xDF", which is not UTF-8.
+  auto files = pack::builtin_pack_files("es-gender");
+  REQUIRE(files);
+  (*files)["adjectives.data"] = "# rules\nrule \xDF a s d\n";
+  std::vector<pack::Diagnostic> diags;
+  auto p = pack::load_pack_files("es-broken", *files, diags);
+  REQUIRE(p.ok());
+  auto e = rewrite::make_engine(*p, {});
+  REQUIRE_FALSE(e.ok());
+  CHECK(e.error().file == "es-broken/adjectives.data");
+  CHECK(e.error().line == std::optional<uint64_t>(2));
+  CHECK(e.error().reason == "not valid UTF-8");
+}

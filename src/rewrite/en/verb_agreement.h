@@ -53,7 +53,8 @@ class VerbTable {
   // Parses a verbs.data text (format: the header of rules/en-gender/verbs.data). `file` names
   // the text in errors. Returns the table, or an Error of kind pack naming the line of the
   // first malformed record (unknown record type, wrong field count, empty or non-lower-case
-  // form, missing or wrong format line).
+  // form, wrong format line); a text without any record (blank or '#' lines only) gets an
+  // error about the whole file, without a line.
   static Result<std::shared_ptr<const VerbTable>> parse(std::string_view text,
                                                         std::string file = "verbs.data");
   // Parses the pack's "verbs.data" file, named in errors by pack.file_path. Returns the table,

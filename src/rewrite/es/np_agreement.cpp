@@ -5,6 +5,7 @@
 #include <sstream>
 
 #include "text/case.h"
+#include "text/utf8.h"
 
 namespace evenhand::rewrite {
 
@@ -34,6 +35,18 @@ std::vector<DataLine> data_lines(const std::string& text) {
     if (!d.f.empty()) out.push_back(std::move(d));
   }
   return out;
+}
+
+// The number of the first line of `text` that is not valid UTF-8, or 0 when every line is.
+uint32_t first_non_utf8_line(std::string_view text) {
+  uint32_t n = 0;
+  for (size_t pos = 0; pos < text.size();) {
+    size_t end = std::min(text.find('\n', pos), text.size());
+    ++n;
+    if (!text::valid_utf8(text.substr(pos, end - pos))) return n;
+    pos = end + 1;
+  }
+  return 0;
 }
 
 Error line_error(const pack::CompiledPack& p, const std::string& file, uint32_t line,
@@ -76,21 +89,33 @@ bool verb_ending(std::string_view w) {
 
 Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pack(
     std::shared_ptr<const pack::CompiledPack> shared) {
+  return from_pack(std::move(shared), {});
+}
+
+Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pack(
+    std::shared_ptr<const pack::CompiledPack> shared,
+    const std::map<std::string, std::string, std::less<>>& replaced) {
   std::shared_ptr<NounPhraseAgreement> t(new NounPhraseAgreement());
   const pack::CompiledPack& p = *shared;
   t->pack_ = std::move(shared);
   t->set_roles_.assign(p.sets().size(), 0);
-  auto need = [&](const char* name) -> const std::string* { return p.file(name); };
+  auto need = [&](const char* name) -> const std::string* {
+    auto it = replaced.find(name);
+    return it != replaced.end() ? &it->second : p.file(name);
+  };
   for (const char* f : {kNounPhraseFile, kAdjectivesFile, kNounsFile, kStressedFile}) {
     if (!need(f))
       return make_error(ErrorKind::pack, p.file_path(f),
                         std::string("missing: noun-phrase agreement (switched on by ") +
                             kNounPhraseFile + ") needs it");
+    // Forms are spliced into the output: a byte that is not UTF-8 would make it invalid.
+    if (uint32_t line = first_non_utf8_line(*need(f)))
+      return line_error(p, f, line, "not valid UTF-8");
   }
 
   // noun-phrase.data
   bool genders = false;
-  for (const auto& d : data_lines(*p.file(kNounPhraseFile))) {
+  for (const auto& d : data_lines(*need(kNounPhraseFile))) {
     const std::string& kind = d.f[0];
     auto err = [&](std::string why) { return line_error(p, kNounPhraseFile, d.line, why); };
     if (!genders && kind != "genders") return err("the first entry must be the genders line");
@@ -142,7 +167,7 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
   if (!genders) return line_error(p, kNounPhraseFile, 0, "no genders line");
 
   // adjectives.data: rules first (adj lines use them), then the rest in order.
-  auto adj_lines = data_lines(*p.file(kAdjectivesFile));
+  auto adj_lines = data_lines(*need(kAdjectivesFile));
   for (const auto& d : adj_lines) {
     if (d.f[0] != "rule") continue;
     if (d.f.size() != 5)
@@ -224,7 +249,7 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
   }
 
   // common-gender.data
-  for (const auto& d : data_lines(*p.file(kNounsFile))) {
+  for (const auto& d : data_lines(*need(kNounsFile))) {
     if (d.f.size() != 3 || (d.f[0] != "common" && d.f[0] != "epicene-f" && d.f[0] != "epicene-m"))
       return line_error(p, kNounsFile, d.line, "expected KIND SINGULAR PLURAL");
     NounKind k = d.f[0] == "common" ? NounKind::common : NounKind::epicene;
@@ -232,7 +257,7 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
     t->nouns_[d.f[2]] = Noun{k, true};
   }
   // stressed-a.data: the nouns (singular); exceptions simply are not listed as nouns.
-  for (const auto& d : data_lines(*p.file(kStressedFile))) {
+  for (const auto& d : data_lines(*need(kStressedFile))) {
     if (d.f.size() != 3 || (d.f[0] != "noun" && d.f[0] != "exception"))
       return line_error(p, kStressedFile, d.line, "expected noun SG PL or exception WORD KIND");
     if (d.f[0] == "noun") t->stressed_a_[pack::fold_word(d.f[1])] = true;

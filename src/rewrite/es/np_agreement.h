@@ -7,6 +7,7 @@
 
 #include <array>
 #include <cstdint>
+#include <map>
 #include <memory>
 #include <span>
 #include <string>
@@ -75,6 +76,11 @@ class NounPhraseAgreement {
   // The table keeps the pack alive.
   static Result<std::shared_ptr<const NounPhraseAgreement>> from_pack(
       std::shared_ptr<const pack::CompiledPack> pack);
+  // The same, reading a file named in `replaced` from there instead of from the pack (errors
+  // still name the pack's file): other data files tried without compiling the pack again.
+  static Result<std::shared_ptr<const NounPhraseAgreement>> from_pack(
+      std::shared_ptr<const pack::CompiledPack> pack,
+      const std::map<std::string, std::string, std::less<>>& replaced);
 
   // One field to rewrite. `target` maps each group to the group it is rewritten to (as the
   // engine decided); `spans` are the protected spans, sorted by begin.
