@@ -136,14 +136,13 @@ VerbTable::Contraction undecided(VerbTable::Contraction::Kind lean, std::string 
 }  // namespace
 
 const VerbTable::Entry* VerbTable::find(std::string_view folded) const {
-  auto it = words_.find(folded);
-  return it == words_.end() ? nullptr : &it->second;
+  return words_.find(folded);
 }
 
 VerbTable::Entry& VerbTable::add(std::string_view form) {
-  auto it = words_.find(form);
-  if (it != words_.end()) return it->second;
-  return words_.emplace(std::string(form), Entry{}).first->second;
+  if (Entry* e = words_.find_for_update(form)) return *e;
+  words_.emplace(form, Entry{});
+  return *words_.find_for_update(form);
 }
 
 std::string VerbTable::read_v(const std::vector<std::string_view>& fields) {
@@ -180,11 +179,11 @@ std::string VerbTable::read_v(const std::vector<std::string_view>& fields) {
 std::string VerbTable::read_a(const std::vector<std::string_view>& fields) {
   if (fields.size() != 2)
     return "an 'a' record has 2 fields (a FORM), found " + std::to_string(fields.size());
-  auto it = words_.find(fields[1]);
-  if (it == words_.end() || !(it->second.flags & kPast))
+  Entry* e = words_.find_for_update(fields[1]);
+  if (e == nullptr || !(e->flags & kPast))
     return "'" + std::string(fields[1]) +
            "' is marked as an adjective but is not a past form of an earlier 'v' record";
-  it->second.flags |= kAdjPast;
+  e->flags |= kAdjPast;
   return "";
 }
 

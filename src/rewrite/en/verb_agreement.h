@@ -9,9 +9,9 @@
 #include <span>
 #include <string>
 #include <string_view>
-#include <unordered_map>
 #include <vector>
 
+#include "base/flat_map.h"
 #include "base/status.h"
 #include "pack/pack.h"
 
@@ -114,10 +114,6 @@ class VerbTable {
 
  private:
   VerbTable() = default;
-  struct Hash {
-    using is_transparent = void;
-    size_t operator()(std::string_view s) const { return std::hash<std::string_view>{}(s); }
-  };
   enum Flag : uint8_t {
     kBase = 1,
     kThird = 2,
@@ -138,7 +134,7 @@ class VerbTable {
   std::string read_a(const std::vector<std::string_view>& fields);
 
   std::vector<std::string> lemmas_;
-  std::unordered_map<std::string, Entry, Hash, std::equal_to<>> words_;
+  FlatStringMap<Entry> words_;  // probed for the words around every pronoun and name
 };
 
 }  // namespace evenhand::rewrite
