@@ -45,6 +45,7 @@ common-word refrain
 common-word then
 common-word is
 common-word sweep
+common-word remnant
 apposition one
 proper-thing norway
 surname norway
@@ -54,10 +55,10 @@ proper-thing monday
 )";
 
 // Names of the cases' first-name lists (a stand-in for the pack's names).
-const char* const kNames[] = {"woody", "allen",  "will",  "clay", "charles", "alice", "bob",
-                              "joy",   "louis",  "red",   "star", "even",    "lucas", "carson",
-                              "eliza", "grace",  "clark", "dean", "rudolph", "larry", "hi",
-                              "james", "andrea", "mac",   "gavin"};
+const char* const kNames[] = {"woody", "allen",  "will",  "clay",  "charles", "alice", "bob",
+                              "joy",   "louis",  "red",   "star",  "even",    "lucas", "carson",
+                              "eliza", "grace",  "clark", "dean",  "rudolph", "larry", "hi",
+                              "james", "andrea", "mac",   "gavin", "scott"};
 
 struct Judge {
   std::shared_ptr<const PersonContext> lex;
@@ -229,4 +230,15 @@ TEST_CASE("a verb after a name makes it a subject, a plural noun is what it modi
   // from memory (common practice): an imperative before an object pronoun; a greeting
   CHECK_FALSE(judge("Will me the house.", "Will", 0, v).person);
   CHECK_FALSE(judge("Hi, my grandmother can't come.", "Hi", 0, v).person);
+}
+
+TEST_CASE("a middle name between a first name and a surname that is also a word") {
+  Judge judge;
+  // source: Debian package fortunes, file "debian" (attribution line)
+  const std::string line = "\t\t-- Scott James Remnant on debian-devel";
+  auto james = judge(line, "James");
+  CHECK(james.person);
+  CHECK(std::string(james.why) == "middle name");
+  // Without a capitalised word after it, the second name is a surname ("Scott James").
+  CHECK(judge("\t\t-- Scott James", "James").surname);
 }

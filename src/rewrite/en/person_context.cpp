@@ -355,8 +355,13 @@ std::optional<NameVerdict> judge_before(const Around& a, const NameSite& s, size
        (s.verbs->is_past_participle(a.f(p)) && !s.verbs->is_base_form(a.f(p)))))
     return yes("the object of a verb ('met Grace')", Evidence::some);
   if (stop || !a.capital(p)) return std::nullopt;
-  if (s.is_name && s.is_name(a.f(p)))
-    return first != Evidence::none ? yes("middle name") : surname("surname after a first name");
+  if (s.is_name && s.is_name(a.f(p))) {
+    // Between a first name and a capitalised word, even a common one: "Scott James Remnant".
+    bool between = a.adjacent(k, k + 1) && a.capital(k + 1) && !a.all_caps(k + 1) &&
+                   !a.has(Lexicon::proper_thing, k + 1) && !is_subject_pronoun(a.f(k + 1));
+    return first != Evidence::none || between ? yes("middle name")
+                                              : surname("surname after a first name");
+  }
   // "On Monday Mary", "Secretary of State Dean Rusk", "Yesterday Mary": no given name before.
   if (a.has(Lexicon::common_word, p) || a.has(Lexicon::proper_thing, p)) {
     if (first == Evidence::none && a.has(Lexicon::common_word, p) && !a.sentence_start(p))
