@@ -242,3 +242,20 @@ TEST_CASE("a middle name between a first name and a surname that is also a word"
   // Without a capitalised word after it, the second name is a surname ("Scott James").
   CHECK(judge("\t\t-- Scott James", "James").surname);
 }
+
+TEST_CASE("a name listed beside things is no person") {
+  Judge judge;
+  // source: Debian package dict-jargon (The Jargon File 4.4.7), entry "bondage-and-discipline
+  // language"
+  const std::string langs = "A language (such as {Pascal}, Ada, APL, or Prolog) that";
+  CHECK_FALSE(judge(langs, "Ada").person);
+  // Only the next item is read: beside "Ada" (no capitals, no number) nothing is said here
+  // (with the shipped pack "Pascal" needs evidence as a rare name).
+  CHECK(judge(langs, "Pascal").person);
+  // source: the same, entry "bitty box": a number before the comma is a model, not a person
+  const std::string boxes = "such as the Atari 800, Osborne, Sinclair, VIC-20, TRS-80, or IBM PC.";
+  CHECK_FALSE(judge(boxes, "Osborne").person);
+  // A list of people stays a list of people (source: Debian package fortunes, file
+  // "miscellaneous").
+  CHECK(judge("[Funny to Frances Slingwine, Guy Harris and Eugenia Pierson.  Ed.]", "Guy").person);
+}

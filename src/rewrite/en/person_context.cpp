@@ -161,6 +161,27 @@ class Around {
       if (s_.text[i] != ' ' && s_.text[i] != '\t') return false;
     return true;
   }
+  // The item next to the name in a list ("Pascal, Ada, APL", "Atari 800, Osborne"): the token
+  // across the comma (and an "and"/"or") on side +1 or -1, brackets and quotes skipped;
+  // SIZE_MAX if there is no comma there.
+  size_t list_neighbour(size_t k, int side) const {
+    auto skip = [&](size_t j) {
+      while (j < size() && (is(j, "}") || is(j, "{") || is(j, ")") || is(j, "(") || is(j, "\"")))
+        j += side;
+      return j;
+    };
+    size_t j = skip(k + side);
+    if (!is(j, ",")) return SIZE_MAX;
+    j = skip(j + side);
+    if (is(j, "and") || is(j, "or")) j = skip(j + side);
+    return j < size() ? j : SIZE_MAX;
+  }
+  // A word in capitals that is not a first name, or a number: a list of things.
+  bool thing_item(size_t j, const NameSite& s) const {
+    if (j == SIZE_MAX) return false;
+    if (!word(j)) return raw(j)[0] >= '0' && raw(j)[0] <= '9';
+    return all_caps(j) && !(s.is_name && s.is_name(f(j)));
+  }
   // A tab, or two spaces, right after token j: the layout of a table or glossary.
   bool column_after(size_t j) const {
     size_t at = s_.tokens[j].end;
@@ -445,6 +466,9 @@ NameVerdict judge_name(const PersonContext& lexicons, const NameSite& site) {
   size_t p = a.word_before(k);
   if (p != SIZE_MAX && p >= 2 && a.f(p) == "of" && a.capital(p - 1) && !a.sentence_start(p - 1))
     return no("after 'X of': part of a longer name");
+  if (!a.all_caps(k) &&
+      (a.thing_item(a.list_neighbour(k, 1), site) || a.thing_item(a.list_neighbour(k, -1), site)))
+    return no("listed beside things ('Pascal, Ada, APL')", Evidence::some);
   if (auto v = judge_after(a, site, k, common)) return *v;
   if (common) return no("also a common word, and nothing says it names a person", Evidence::none);
   if (lexicons.has(Lexicon::thing_name, a.f(k)) && p != SIZE_MAX &&
