@@ -34,7 +34,8 @@ Kinds and their method (also written into the output header, with counts):
   thing-name   one of the first names that WordNet also holds as a one-word capitalised noun
                lemma (Virginia, Florence, Jordan) in a lexicographer file of
                THING_NAME_FILES: places and groups. (Not the first word of a longer name:
-               "William_and_Mary" would make William a place after "in".)
+               "William_and_Mary" would make William a place after "in".) Plus X of a
+               two-word lemma "X_University" (a university called by X alone: "at Stanford").
   surname      a word that WordNet gives as the last word of a multi-word noun.person instance
                lemma (Abraham_Lincoln -> lincoln; a trailing Jr., Sr. or roman numeral is
                skipped; lemmas with an epithet "the" or "of" are skipped: Ivan_the_Terrible,
@@ -375,6 +376,12 @@ def thing_names(nouns, first_names):
         for lemma in syn.words:
             if lemma[:1].isupper() and "_" not in lemma and lemma.lower() in first_names:
                 out.setdefault(lemma.lower(), set()).add(LEXFILES[syn.lexfile])
+    # A university known by its first word alone ("at Stanford"): "X_University" lemmas.
+    for syn in nouns.values():
+        for lemma in syn.words:
+            first, _, head = lemma.partition("_")
+            if head == "University" and first[:1].isupper() and first.lower() in first_names:
+                out.setdefault(first.lower(), set()).add("X_University")
     return {k: sorted(v) for k, v in out.items()}
 
 
@@ -646,7 +653,8 @@ def render(entries, st, wn):
     files = ", ".join(LEXFILES[f] for f in THING_NAME_FILES)
     out.extend(build_names.para(
         f"thing-name ({count.get('thing-name', 0)}): a first name that WordNet also holds "
-        f"as a one-word capitalised noun lemma in {files}. Each with its files at the end."))
+        f"as a one-word capitalised noun lemma in {files}, or that is X of a two-word lemma "
+        "X_University (a university called by X alone). Each with its files at the end."))
     multi = sum(1 for v in sur.values() if v == "multi")
     out.extend(build_names.para(
         f"surname ({count.get('surname', 0)}): the last word of a multi-word noun.person "

