@@ -59,7 +59,7 @@ proper-thing monday
 const char* const kNames[] = {"woody", "allen",  "will",  "clay",  "charles", "alice", "bob",
                               "joy",   "louis",  "red",   "star",  "even",    "lucas", "carson",
                               "eliza", "grace",  "clark", "dean",  "rudolph", "larry", "hi",
-                              "james", "andrea", "mac",   "gavin", "scott"};
+                              "james", "andrea", "mac",   "gavin", "scott",   "ed"};
 
 struct Judge {
   std::shared_ptr<const PersonContext> lex;
@@ -268,4 +268,12 @@ TEST_CASE("after a title, a name before a surname that is also a word is a first
   CHECK(louis.person);
   // A title and a name alone: the name is the surname (an invented variant: mechanics).
   CHECK(judge("said Sen. Louis yesterday", "Louis").surname);
+}
+
+TEST_CASE("a name that signs an editor's bracketed note is an abbreviation") {
+  Judge judge;
+  // source: Debian package fortunes, file "men-women"
+  CHECK_FALSE(judge("[ And why not?  For why does he have her hat on?  Ed.]", "Ed").person);
+  // A name before a full stop and no bracket stays a person (invented sentence, mechanics).
+  CHECK(judge("I gave it to Ed.", "Ed").person);
 }

@@ -468,6 +468,10 @@ NameVerdict judge_name(const PersonContext& lexicons, const NameSite& site) {
   if (a.attribution(k) && a.adjacent(k, k + 1) && a.capital(k + 1))
     return yes("opens an attribution or signature");
   if (a.quoted_title(k)) return no("opens a quoted title in an attribution");
+  // "[... Ed.]": the abbreviation that signs an editor's bracketed note.
+  if (a.is(k + 1, ".") && a.is(k + 2, "]") &&
+      a.raw(k + 1).data() == a.raw(k).data() + a.raw(k).size())
+    return no("signs a bracketed note: an abbreviation ('Ed.]')");
   if (a.all_caps(k) && !a.all_caps_around(k)) return no("written in capitals: an acronym");
   if (auto v = thing_after(a, k, common)) return *v;
   if (auto v = judge_before(a, site, k)) return *v;
