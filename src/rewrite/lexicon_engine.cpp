@@ -16,6 +16,7 @@
 #include <algorithm>
 #include <array>
 #include <cstring>
+#include <tuple>
 #include <unordered_map>
 
 #include "base/flat_map.h"
@@ -76,7 +77,8 @@ struct WordSlots {
   const std::vector<pack::LexEntry>* lex = nullptr;
   const std::vector<PhraseIndex::Phrase>* guard = nullptr;
   const std::vector<PhraseIndex::Phrase>* prot = nullptr;
-  bool mixed_name = false;  // a first name both sexes carry (person evidence)
+  bool mixed_name = false;               // a first name both sexes carry (person evidence)
+  const pack::LexEntry* name = nullptr;  // the single-word first-name entry of lex, if any
 };
 
 // Folded word -> WordSlots in a flat table (whose filter turns most tokens, which are in no
@@ -86,7 +88,12 @@ class WordIndex {
   WordSlots& operator[](const std::string& key) { return build_[key]; }
   void freeze() {
     table_.reserve(build_.size());
-    for (auto& [key, v] : build_) table_.emplace(key, v);
+    for (auto& [key, v] : build_) {
+      if (v.lex)
+        for (const auto& en : *v.lex)
+          if (!v.name && en.is_name && en.words.size() == 1) v.name = &en;
+      table_.emplace(key, v);
+    }
     build_.clear();
   }
   const WordSlots* find(std::string_view key) const { return table_.find(key); }
@@ -109,6 +116,9 @@ class LexiconWorker final : public Worker {
     text::TokenKind kind = text::TokenKind::punct;
     uint32_t call = kNoCall;           // a listed name's verdict in calls_, if judged
     const WordSlots* slots = nullptr;  // what this folded word starts, if anything
+    // The slots of the pack entries the word starts, also before a trailing clitic
+    // ("mother's": those of "mother"), or null.
+    const WordSlots* entry = nullptr;
   };
   static constexpr uint32_t kNoCall = UINT32_MAX;
   // The verdict on one occurrence of a listed first name, and the name (folded).
@@ -169,7 +179,11 @@ class LexiconWorker final : public Worker {
     std::string_view note;  // a name's person evidence
   };
   // The pack entries a word item starts (also before a trailing clitic), or null.
-  const std::vector<pack::LexEntry>* entries_at(size_t k) const;
+  const std::vector<pack::LexEntry>* entries_at(size_t k) const {
+    return cur_->items[k].entry ? cur_->items[k].entry->lex : nullptr;
+  }
+  // The slots of a folded word that ends in a clitic, by its stem, if it has entries.
+  const WordSlots* stem_slots(std::string_view folded) const;
   Match longest_match(size_t k, const std::vector<pack::LexEntry>& entries);
   // Decides between candidates with different forms ("her" -> his/him) by the pack's model.
   void choose_form(size_t k, Match& m, RecordResult& out);
@@ -195,11 +209,17 @@ class LexiconWorker final : public Worker {
     std::vector<Item> items;
     std::string fold;
     std::vector<text::Span> spans;
+    std::vector<uint32_t> capitals;  // word items that open with a capital and the pack knows
   };
   std::vector<FieldState> fields_;
-  FieldState* cur_ = nullptr;                 // the field being matched
+  FieldState* cur_ = nullptr;  // the field being matched
+  // settle_names(): the names read as surnames, persons and places in the record.
+  std::tuple<std::vector<std::string_view>, std::vector<std::string_view>,
+             std::vector<std::string_view>>
+      settle_;
   std::vector<std::string_view> words_;       // folded items for the possessive model
   std::vector<const pack::LexEntry*> cands_;  // entries matching at one position
+  bool site_ready_ = false;                   // site_ holds the tokens of the field being judged
   std::vector<FieldToken> np_tokens_;  // items for noun-phrase agreement (packs that have it)
   std::vector<NameCall> calls_;        // the record's judged names (person evidence)
   std::string unswappable_;            // the first person the pack cannot swap, as written
@@ -297,6 +317,7 @@ constexpr std::array<char, 256> kAsciiLower = [] {
 // UAX #29 keeps underscores inside words ("_Grace_" is one word); emphasis marks of plain
 // text are split off as punctuation so that the word inside them is matched.
 static void split_emphasis(std::string_view field, std::vector<text::Token>& tokens) {
+  if (field.find('_') == std::string_view::npos) return;  // most fields: one memchr
   bool any = false;
   for (const auto& t : tokens)
     any = any ||
@@ -326,6 +347,7 @@ void LexiconWorker::prepare_field(std::string_view field) {
   std::string& fold = cur_->fold;
   items.clear();
   items.reserve(tokens_.size());
+  cur_->capitals.clear();
   // The field is lower-cased (ASCII) as a whole, so a token's folded text sits at the
   // token's own offsets; a token with non-ASCII bytes is folded by pack::fold_word (which may
   // change its length) and its folded text appended after the field's.
@@ -365,7 +387,12 @@ void LexiconWorker::prepare_field(std::string_view field) {
       }
     }
     if (t.kind == text::TokenKind::word) {
-      it.slots = e_.words_.find(std::string_view(fold.data() + it.fold_off, it.fold_len));
+      std::string_view f(fold.data() + it.fold_off, it.fold_len);
+      it.slots = e_.words_.find(f);
+      it.entry = it.slots && it.slots->lex ? it.slots : stem_slots(f);
+      // A capitalised word the pack knows: a name (or title) for judge_names().
+      if ((it.slots || it.entry) && !(src[t.begin] >= 'a' && src[t.begin] <= 'z'))
+        cur_->capitals.push_back(static_cast<uint32_t>(items.size()));
     }
     items.push_back(it);
   }
@@ -474,6 +501,9 @@ bool LexiconWorker::surname_position(size_t k) const {
 }
 
 bool LexiconWorker::capitalised(std::string_view original) {
+  // ASCII first letter: title, capitals or mixed-from-a-capital all open with A-Z (fast path).
+  if (!original.empty() && original[0] >= 'A' && original[0] <= 'Z') return true;
+  if (!original.empty() && original[0] >= 'a' && original[0] <= 'z') return false;
   text::CasePattern pattern = text::case_pattern(original);
   return pattern == text::CasePattern::title || pattern == text::CasePattern::upper ||
          (pattern == text::CasePattern::mixed && original[0] >= 'A' && original[0] <= 'Z');
@@ -493,21 +523,15 @@ bool LexiconWorker::names_person(const pack::LexEntry& en, size_t k, std::string
 }
 
 const pack::LexEntry* LexiconWorker::name_entry(size_t k) const {
-  const std::vector<pack::LexEntry>* entries = entries_at(k);
-  if (entries == nullptr) return nullptr;
-  for (const auto& en : *entries)
-    if (en.is_name && en.words.size() == 1) return &en;
-  return nullptr;
+  return cur_->items[k].entry ? cur_->items[k].entry->name : nullptr;
 }
 
 void LexiconWorker::judge_names(std::string_view text) {
   std::vector<Item>& items = cur_->items;
-  np_tokens_.clear();
-  for (size_t k = 0; k < items.size(); ++k) {
+  site_ready_ = false;
+  // Only a word that opens with a capital (or a non-ASCII letter) can be a name or title.
+  for (uint32_t k : cur_->capitals) {
     items[k].call = kNoCall;
-    // Only a word that opens with a capital (or a non-ASCII letter) can be a name or title.
-    unsigned char first = static_cast<unsigned char>(text[items[k].begin]);
-    if (items[k].kind != text::TokenKind::word || (first >= 'a' && first <= 'z')) continue;
     const pack::LexEntry* en = name_entry(k);
     if (en == nullptr) {
       if (items[k].slots) note_unswappable(text, k);
@@ -527,13 +551,16 @@ void LexiconWorker::judge_names(std::string_view text) {
 }
 
 void LexiconWorker::prepare_site(std::string_view text) {
-  if (!np_tokens_.empty()) return;  // judge_names() clears it for each field
-  np_tokens_.clear();
+  if (site_ready_) return;  // judge_names() resets it for each field
+  site_ready_ = true;
   const std::vector<Item>& items = cur_->items;
-  for (size_t j = 0; j < items.size(); ++j)
-    np_tokens_.push_back(
-        {items[j].begin, items[j].end, folded(j), items[j].kind == text::TokenKind::word});
-  site_.tokens = np_tokens_;
+  if (np_tokens_.size() < items.size()) np_tokens_.resize(items.size());
+  const char* fold = cur_->fold.data();
+  FieldToken* out = np_tokens_.data();
+  for (const Item& it : items)
+    *out++ = {it.begin, it.end, std::string_view(fold + it.fold_off, it.fold_len),
+              it.kind == text::TokenKind::word};
+  site_.tokens = std::span<const FieldToken>(np_tokens_.data(), items.size());
   site_.text = text;
 }
 
@@ -579,7 +606,9 @@ void LexiconWorker::flag_unswappable(RecordResult& out) const {
 }
 
 void LexiconWorker::settle_names() {
-  std::vector<std::string_view> surnames, persons, places;
+  if (calls_.empty()) return;
+  auto& [surnames, persons, places] = settle_;  // reused: no allocation per record
+  for (auto* v : {&surnames, &persons, &places}) v->clear();
   for (const NameCall& c : calls_) {
     if (c.verdict.surname) surnames.push_back(c.name);
     if (c.verdict.place) places.push_back(c.name);
@@ -635,13 +664,9 @@ static std::string recase(std::string_view original, std::string_view replacemen
   return out;
 }
 
-const std::vector<pack::LexEntry>* LexiconWorker::entries_at(size_t k) const {
-  if (cur_->items[k].kind != text::TokenKind::word) return nullptr;
-  if (const auto* entries = cur_->items[k].slots ? cur_->items[k].slots->lex : nullptr)
-    return entries;
+const WordSlots* LexiconWorker::stem_slots(std::string_view f) const {
   // The word without a trailing clitic ("mother's" -> "mother"). Clitics are two or three
   // bytes folded ('s 'd 'm, 'll 're 've).
-  std::string_view f = folded(k);
   size_t n = f.size(), apos;
   if (n >= 3 && f[n - 2] == '\'') {
     apos = n - 2;
@@ -651,7 +676,7 @@ const std::vector<pack::LexEntry>* LexiconWorker::entries_at(size_t k) const {
     return nullptr;
   }
   const WordSlots* stem = e_.words_.find(f.substr(0, apos));  // same entries as pk.lookup()
-  return stem ? stem->lex : nullptr;
+  return stem && stem->lex ? stem : nullptr;
 }
 
 LexiconWorker::Match LexiconWorker::longest_match(size_t k,
@@ -945,6 +970,7 @@ void LexiconWorker::trim() {
   cands_ = {};
   np_tokens_ = {};
   calls_ = {};
+  settle_ = {};
   cur_ = nullptr;
 }
 

@@ -253,7 +253,10 @@ class Around {
   bool chat_label(size_t j) const { return j >= 1 && is(j - 1, "<") && is(j + 1, ">"); }
   // Two or more letters, all upper case ("ELIZA", "ANN").
   bool all_caps(size_t j) const {
-    return word(j) && raw(j).size() >= 2 && text::case_pattern(raw(j)) == text::CasePattern::upper;
+    if (!word(j) || raw(j).size() < 2) return false;
+    unsigned char c0 = raw(j)[0], c1 = raw(j)[1];
+    if ((c0 >= 'a' && c0 <= 'z') || (c1 >= 'a' && c1 <= 'z')) return false;  // fast path
+    return text::case_pattern(raw(j)) == text::CasePattern::upper;
   }
   // The nearest word before or after `j` on its line is in capitals too (a heading, a shout).
   bool all_caps_around(size_t j) const {

@@ -189,6 +189,9 @@ std::string VerbTable::read_a(const std::vector<std::string_view>& fields) {
 
 Result<std::shared_ptr<const VerbTable>> VerbTable::parse(std::string_view text, std::string file) {
   std::shared_ptr<VerbTable> table(new VerbTable());
+  // About four forms a record ("v LEMMA 3SG PAST ING"): room for them all without regrowing.
+  table->words_.reserve(4 * static_cast<size_t>(std::count(text.begin(), text.end(), '\n')),
+                        text.size());
   auto take = [&](std::string_view line) -> std::string {
     std::vector<std::string_view> fields = split(line, ' ');
     if (fields[0] == "v") return table->read_v(fields);
