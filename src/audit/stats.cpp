@@ -27,6 +27,9 @@ void Stats::merge(const Stats& o) {
   fields_selected += o.fields_selected;
   fields_missing += o.fields_missing;
   fields_not_string += o.fields_not_string;
+  if (pattern_records.size() < o.pattern_records.size())
+    pattern_records.resize(o.pattern_records.size());
+  for (size_t i = 0; i < o.pattern_records.size(); ++i) pattern_records[i] += o.pattern_records[i];
   records_with_mentions += o.records_with_mentions;
   records_guarded += o.records_guarded;
   records_flagged += o.records_flagged;

@@ -31,6 +31,8 @@ struct Stats {
   uint64_t fields_selected = 0;    // string values matched by the field pointers
   uint64_t fields_missing = 0;     // pointer patterns that matched nothing in a record
   uint64_t fields_not_string = 0;  // matched values that were not strings
+  // Per --field pattern (JSONL): records in which it matched at least one value.
+  std::vector<uint64_t> pattern_records;
 
   uint64_t records_with_mentions = 0;
   uint64_t records_guarded = 0;

@@ -62,6 +62,7 @@ void add_corpus_options(po::options_description& opts, CorpusArgs& a) {
     ("on-bad-record", po::value(&a.on_bad), "fail (default), skip, or quarantine (copy raw lines to --quarantine)")
     ("quarantine", po::value(&ro.quarantine_path), "file for rejected records' raw lines")
     ("rejects", po::value(&ro.rejects_path), "write one JSON line per rejected record (file, line, reason) here")
+    ("allow-unmatched-field", po::bool_switch(&ro.allow_unmatched_fields), "JSONL: finish even when a --field matched no value in the whole run (default: fail, exit 2)")
     ("max-record-bytes", po::value(&a.max_bytes), "reject records longer than this, 1 to 2G (default 16M; K, M, G suffixes)");
   add_protect_option(opts, a.protect);
   opts.add_options()
@@ -220,6 +221,12 @@ void attach_reporting(CorpusArgs& a, bool& shown) {
                   std::string(rejects.empty() ? "" : " and every one in " + rejects));
     }
     ++*count;
+  };
+  a.ro.on_unmatched_field = [quiet, &shown](const std::string& pattern, uint64_t records) {
+    if (quiet) return;
+    if (shown) std::fputs("\r\033[K", stderr);
+    print_error("warning: --field " + pattern + " has matched no value in the first " +
+                std::to_string(records) + " records");
   };
 }
 

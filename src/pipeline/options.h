@@ -43,6 +43,9 @@ struct Progress {
   double seconds = 0;
 };
 
+// Records after which a --field pattern that matched nothing is reported (on_unmatched_field).
+inline constexpr uint64_t kUnmatchedWarnAfter = 1000;
+
 // Limits run() checks (kind usage): worker threads and the per-record size limit.
 inline constexpr unsigned kMaxThreads = 256;
 inline constexpr size_t kMaxRecordBytesLimit = size_t(1) << 31;
@@ -67,9 +70,15 @@ struct RunOptions {
   io::SinkOptions output_options;
   bool provenance = false;              // add the "_evenhand" member to every written JSONL record
   const balance::Plan* plan = nullptr;  // balance mode: the plan to apply (not owned)
+  // JSONL: a --field pattern that matched no value in any record read fails the run (kind
+  // usage) unless this is set; the run's records all pass through unrewritten otherwise.
+  bool allow_unmatched_fields = false;
 
   // Called from the writer thread, about four times a second.
   std::function<void(const Progress&)> on_progress;
+  // Called from the writer thread once, after the first kUnmatchedWarnAfter records, for each
+  // --field pattern that has matched no value yet (its text and the records read).
+  std::function<void(const std::string& pattern, uint64_t records)> on_unmatched_field;
   // Called from the writer thread for every rejected record, in input order.
   std::function<void(const Error&)> on_rejection;
   // Called once every output is complete under its temporary name, before any is renamed

@@ -32,6 +32,7 @@ struct RecordProcessor::Impl {
   // Scratch reused across records.
   std::vector<corpus::FieldMatch> matches;
   std::vector<uint32_t> field_match;  // field index -> match index
+  std::vector<uint8_t> pattern_seen;  // per --field pattern: matched in this record
   std::vector<std::string_view> fields;
   rewrite::RecordResult result;
   std::vector<corpus::MatchEdit> match_edits;
@@ -51,6 +52,15 @@ struct RecordProcessor::Impl {
                                                      std::optional<corpus::PointerPattern> id) {
     if (id) p.push_back(std::move(*id));
     return p;
+  }
+
+  // Adds one to the record count of every --field pattern that matched in `matches`.
+  void count_patterns(audit::Stats& st) {
+    pattern_seen.assign(n_patterns, 0);
+    for (const auto& m : matches)
+      if (m.pattern < n_patterns) pattern_seen[m.pattern] = 1;
+    if (st.pattern_records.size() < n_patterns) st.pattern_records.resize(n_patterns);
+    for (size_t p = 0; p < n_patterns; ++p) st.pattern_records[p] += pattern_seen[p];
   }
 
   void provenance(std::string_view record, const RecordOrigin& origin, bool counterfactual,
@@ -228,6 +238,7 @@ struct RecordProcessor::Impl {
       }
       st.fields_missing += ss.missing;
       st.fields_not_string += ss.not_string;
+      count_patterns(st);
       for (uint32_t i = 0; i < matches.size(); ++i) {
         const auto& m = matches[i];
         if (has_id && m.pattern == n_patterns) {

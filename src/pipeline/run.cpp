@@ -108,6 +108,10 @@ class Runner {
   void worker_main();
   void process_batch(Batch& b, RecordProcessor& proc);
   Status write_batch(Batch& b);
+  // After the first kUnmatchedWarnAfter records: reports each --field that matched nothing.
+  void warn_unmatched();
+  // At the end: the usage error for a --field that matched nothing (unless allowed).
+  Status unmatched_fields() const;
   // Starts the workers and the reader. When the system refuses a thread, returns an error
   // (kind output); the threads already started are left for stop_all() and joining.
   Status start_threads(std::thread& reader, std::vector<std::thread>& workers);
@@ -141,6 +145,7 @@ class Runner {
   uint64_t next_seq_ = 0;  // reader side
   uint64_t raw_done_ = 0;  // reader side: raw bytes of finished inputs
   uint64_t raw_total_ = 0;
+  bool warned_unmatched_ = false;
   RunResult result_;
 };
 
@@ -342,6 +347,31 @@ void Runner::worker_main() {
   }
 }
 
+void Runner::warn_unmatched() {
+  const audit::Stats& st = result_.stats;
+  const uint64_t parsed = st.records_read - st.records_rejected;  // rejected: never selected
+  if (warned_unmatched_ || !opt_.on_unmatched_field || parsed < kUnmatchedWarnAfter) return;
+  warned_unmatched_ = true;
+  for (size_t p = 0; p < opt_.fields.size() && opt_.format == Format::jsonl; ++p)
+    if (p >= st.pattern_records.size() || st.pattern_records[p] == 0)
+      opt_.on_unmatched_field(opt_.fields[p], parsed);
+}
+
+Status Runner::unmatched_fields() const {
+  const audit::Stats& st = result_.stats;
+  const uint64_t parsed = st.records_read - st.records_rejected;
+  if (opt_.allow_unmatched_fields || opt_.format != Format::jsonl || parsed == 0)
+    return ok_status();
+  for (size_t p = 0; p < opt_.fields.size(); ++p) {
+    if (p < st.pattern_records.size() && st.pattern_records[p] > 0) continue;
+    return make_error(ErrorKind::usage, "",
+                      "--field " + opt_.fields[p] + " matched no value in any of the " +
+                          std::to_string(parsed) +
+                          " records read (check the pointer; --allow-unmatched-field runs anyway)");
+  }
+  return ok_status();
+}
+
 Status Runner::write_batch(Batch& b) {
   if (b.fatal) return *b.fatal;
   if (!b.rejections.empty()) {
@@ -438,6 +468,7 @@ Status Runner::write_all(std::chrono::steady_clock::time_point t0) {
     budget_->release(budgeted);
     tokens_->release();
     if (!status.ok() || last) return status;
+    warn_unmatched();
     if (opt_.on_progress) {
       auto now = std::chrono::steady_clock::now();
       if (now - last_progress >= std::chrono::milliseconds(250)) {
@@ -483,6 +514,7 @@ Result<RunResult> Runner::run() {
   stop_all();
   if (reader.joinable()) reader.join();
   for (auto& w : workers) w.join();
+  if (status.ok()) status = unmatched_fields();
   if (!status.ok()) {
     for (auto* s : {&out_, &edits_, &quarantine_, &rejects_})
       if (*s) (*s)->abort();
