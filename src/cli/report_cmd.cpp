@@ -40,7 +40,7 @@ Result<review::ReportFile> describe(const std::string& role, const std::string& 
 
 int report_command(const std::vector<std::string>& args) {
   po::options_description opts("Options");
-  std::string manifest, edits, assoc, out, format, root;
+  std::string manifest, edits, assoc, out, format, root, stdin_corpus;
   bool paragraphs = false;
   size_t sample = 12;
   uint64_t seed = 0;
@@ -55,7 +55,8 @@ int report_command(const std::vector<std::string>& args) {
     ("seed", whole_number("--seed", &seed, 0, UINT64_MAX), "seed of the sample, 0 to 2^64-1 (default 0)")
     ("format", po::value(&format), "corpus format jsonl|text (default: the manifest's)")
     ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
-    ("root", po::value(&root), "read relative input paths of the audit log from this directory");
+    ("root", po::value(&root), "read relative input paths of the audit log from this directory")
+    ("stdin-corpus", po::value(&stdin_corpus), "a copy of what the run read from standard input (logged as <stdin>)");
   // clang-format on
   po::variables_map vm;
   int rc =
@@ -75,11 +76,14 @@ int report_command(const std::vector<std::string>& args) {
   review::CorpusLayout layout;
   rc = corpus_layout("report", &*m, format, paragraphs, root, layout);
   if (rc >= 0) return rc;
+  layout.stdin_corpus = stdin_corpus;
   // The corpus files the audit log points at are read too.
   for (const auto& f : m->inputs)
-    ins.push_back({review::resolve_input(f.path, layout), "the manifest's input"});
+    if (std::string p = review::resolve_input(f.path, layout); !p.empty())
+      ins.push_back({p, "the manifest's input"});
   for (const auto& f : m->outputs)
-    ins.push_back({review::resolve_input(f.path, layout), "the manifest's output"});
+    if (std::string p = review::resolve_input(f.path, layout); !p.empty())
+      ins.push_back({p, "the manifest's output"});
   rc = check_outputs("report", ins, {{out, "--out"}});
   if (rc >= 0) return rc;
 

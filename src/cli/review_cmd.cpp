@@ -15,6 +15,7 @@
 #include "review/manifest_view.h"
 #include "review/select.h"
 #include "review/sources.h"
+#include "rewrite/engine.h"
 
 namespace evenhand::cli {
 
@@ -56,7 +57,7 @@ int corpus_layout(const std::string& command, const review::ManifestView* m,
 
 int review_command(const std::vector<std::string>& args) {
   po::options_description opts("Options");
-  std::string edits, manifest, format, root, layout_name = "inline", color = "auto";
+  std::string edits, manifest, format, root, stdin_corpus, layout_name = "inline", color = "auto";
   bool paragraphs = false, no_rules = false;
   size_t sample = 0, width = 0;
   uint64_t seed = 0;
@@ -69,6 +70,7 @@ int review_command(const std::vector<std::string>& args) {
     ("format", po::value(&format), "corpus format jsonl|text (default: the manifest's, else jsonl)")
     ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
     ("root", po::value(&root), "read relative input paths of the log from this directory")
+    ("stdin-corpus", po::value(&stdin_corpus), "a copy of what a run read from standard input (logged as <stdin>)")
     ("rule", po::value(&filter.rules)->composing(), "only records with an edit by this pack entry (words.txt:67); repeatable")
     ("why", po::value(&filter.whys)->composing(), "only records with an edit of this reason: lexicon|name|context|agreement; repeatable")
     ("field", po::value(&filter.fields)->composing(), "only records with an edit in this field (JSON Pointer as logged); repeatable")
@@ -91,6 +93,16 @@ int review_command(const std::vector<std::string>& args) {
     print_error("review: give the audit log (--edits PATH)");
     return kUsage;
   }
+  for (const std::string& why : filter.whys) {
+    bool known = false;
+    for (auto r : {rewrite::EditReason::lexicon, rewrite::EditReason::name,
+                   rewrite::EditReason::context, rewrite::EditReason::agreement})
+      known = known || why == rewrite::edit_reason_name(r);
+    if (!known) {
+      print_error("review: --why must be lexicon, name, context or agreement, not '" + why + "'");
+      return kUsage;
+    }
+  }
   if (layout_name != "inline" && layout_name != "columns") {
     print_error("review: --layout must be inline or columns");
     return kUsage;
@@ -108,6 +120,7 @@ int review_command(const std::vector<std::string>& args) {
   review::CorpusLayout layout;
   rc = corpus_layout("review", mv ? &*mv : nullptr, format, paragraphs, root, layout);
   if (rc >= 0) return rc;
+  layout.stdin_corpus = stdin_corpus;
 
   // Pass 1 checks the whole log before anything is printed, counts it and, with --sample,
   // counts the pack entries the sample's strata are drawn from.

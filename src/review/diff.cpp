@@ -51,25 +51,32 @@ void to_cells(const std::vector<Piece>& pieces, bool color, bool columns, bool l
       i += n;
     }
   };
-  for (const auto& p : pieces) {
+  for (size_t i = 0; i < pieces.size(); ++i) {
+    const Piece& p = pieces[i];
     if (p.kind == Piece::same) {
       add_text(p.text, 0);
       continue;
     }
     if (columns && (p.kind == Piece::removed) != left) continue;
     int style = p.kind == Piece::removed ? 1 : 2;
-    if (!color) {
-      if (columns)
-        add_text("[", 3);
-      else
-        add_text(p.kind == Piece::removed ? "[-" : "{+", 3);
-    }
-    add_text(p.text, style);
-    if (!color) {
-      if (columns)
-        add_text("]", 3);
-      else
-        add_text(p.kind == Piece::removed ? "-]" : "+}", 3);
+    if (color) {
+      add_text(p.text, style);
+    } else if (columns) {
+      add_text("[", 3);
+      add_text(p.text, style);
+      add_text("]", 3);
+    } else {
+      // Inline: one mark per edit, the old text before the arrow and the new after it:
+      // «old→new» (a pure insertion «→new», a pure removal «old→»).
+      add_text("\u00ab", 3);
+      if (p.kind == Piece::removed) add_text(p.text, 1);
+      add_text("\u2192", 3);
+      if (p.kind == Piece::added) {
+        add_text(p.text, 2);
+      } else if (i + 1 < pieces.size() && pieces[i + 1].kind == Piece::added) {
+        add_text(pieces[++i].text, 2);
+      }
+      add_text("\u00bb", 3);
     }
   }
 }

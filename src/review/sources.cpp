@@ -12,7 +12,12 @@
 
 namespace evenhand::review {
 
+bool is_stdin_input(const std::string& input) {
+  return input == "<stdin>" || input == "-";
+}
+
 std::string resolve_input(const std::string& input, const CorpusLayout& layout) {
+  if (is_stdin_input(input)) return layout.stdin_corpus;
   if (layout.root.empty() || input.empty() || input[0] == '/') return input;
   return (std::filesystem::path(layout.root) / input).string();
 }
@@ -187,10 +192,10 @@ Status SourceAttacher::attach(std::vector<ReviewRecord*>& records) {
   for (auto it = state_->open.begin(); it != state_->open.end();)
     it = wanted.count(it->first) ? std::next(it) : state_->open.erase(it);
   for (auto& [input, by_line] : wanted) {
-    if (input == "-")
-      return make_error(
-          ErrorKind::usage, input,
-          "the run read standard input; the corpus cannot be read again to review it");
+    if (is_stdin_input(input) && layout_.stdin_corpus.empty())
+      return make_error(ErrorKind::usage, input,
+                        "the run read standard input, which cannot be read again: give a copy "
+                        "of what it read with --stdin-corpus PATH");
     std::string path = resolve_input(input, layout_);
     Cursor& c = state_->open[input];
     for (auto lo = by_line.begin(); lo != by_line.end();) {

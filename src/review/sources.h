@@ -25,7 +25,12 @@ struct CorpusLayout {
   size_t max_record_bytes = 16u << 20;
   // Relative input paths of the log are read relative to this directory ("" = as given).
   std::string root;
+  // The file holding what a run read from standard input (logged as "<stdin>"); "" = none.
+  std::string stdin_corpus;
 };
+
+// True for the names a log gives standard input ("<stdin>", and "-").
+bool is_stdin_input(const std::string& input);
 
 // Calls `fn(record)` for every record of `path` in order. `fn` returns true to go on, false
 // to stop, or an Error whose file and line, when empty, are filled in with this record's.
@@ -78,7 +83,7 @@ Status for_each_attached(const std::string& log, const CorpusLayout& layout, siz
 // One batch: SourceAttacher(layout).attach(records).
 Status attach_sources(std::vector<ReviewRecord*>& records, const CorpusLayout& layout);
 
-// The path a logged input is read from under `layout.root`.
+// The path a logged input is read from under `layout.root` (standard input: stdin_corpus).
 std::string resolve_input(const std::string& input, const CorpusLayout& layout);
 
 }  // namespace evenhand::review

@@ -228,7 +228,8 @@ TEST_CASE("terminal drawing: brackets without colour, ANSI with it, two columns"
   review::TerminalStyle plain;
   plain.width = 60;
   std::string a = review::render_terminal(r, plain);
-  CHECK(a.find("[-She-]{+He+} fixed [-her-]{+his+} bike.") != std::string::npos);
+  CHECK(a.find("\u00abShe\u2192He\u00bb fixed \u00abher\u2192his\u00bb bike.") !=
+        std::string::npos);
   CHECK(a.find("\x1b[") == std::string::npos);
   CHECK(a.find("'her' -> 'his'  context words.txt:69 score 3.5") != std::string::npos);
   review::TerminalStyle color = plain;

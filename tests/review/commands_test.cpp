@@ -48,7 +48,7 @@ TEST_CASE("review: filters, sample, no colour when piped, colour on request") {
   auto all = run(d, "review " + log + " --manifest " + d.file("m.json"));
   REQUIRE(all.code == 0);
   CHECK(all.out.find("\x1b[") == std::string::npos);  // stdout is a file here
-  CHECK(all.out.find("[-Emma-]{+Jacob+}") != std::string::npos);
+  CHECK(all.out.find("\u00abEmma\u2192Jacob\u00bb") != std::string::npos);
   CHECK(all.out.find("shown 223 of 223 matching records (223 in the log)") != std::string::npos);
 
   auto guarded = run(d, "review " + log + " --guard medical");
@@ -58,8 +58,9 @@ TEST_CASE("review: filters, sample, no colour when piped, colour on request") {
 
   auto rule = run(d, "review " + log + " --rule words.txt:300 --why lexicon");
   REQUIRE(rule.code == 0);
-  CHECK(rule.out.find("[-chairwoman-]{+chairman+}") != std::string::npos);
-  CHECK(rule.out.find("[-Emma-]{+Jacob+}") != std::string::npos);  // line 13, with its other edits
+  CHECK(rule.out.find("\u00abchairwoman\u2192chairman\u00bb") != std::string::npos);
+  CHECK(rule.out.find("\u00abEmma\u2192Jacob\u00bb") !=
+        std::string::npos);  // line 13, with its other edits
 
   auto s1 = run(d, "review " + log + " --sample 5 --seed 3");
   auto s2 = run(d, "review " + log + " --sample 5 --seed 3");
@@ -374,4 +375,27 @@ TEST_CASE("report: headless Chromium loads the page and finds the charts") {
   std::string shot = read_file(png);
   REQUIRE(shot.size() > 1000);
   CHECK(shot.substr(1, 3) == "PNG");  // PNG signature (ISO/IEC 15948)
+}
+
+TEST_CASE("review: an unknown --why is a usage error, and standard input is read back from a copy") {
+  TempDir d;
+  demo(d);
+  auto bogus = run(d, "review " + d.file("edits.jsonl") + " --why bogus");
+  CHECK(bogus.code == kUsage);
+  CHECK(bogus.err.find("--why must be lexicon, name, context or agreement, not 'bogus'") !=
+        std::string::npos);
+  // A run from standard input logs its records as <stdin> (invented record, mechanics).
+  write_file(d.file("in.jsonl"), "{\"text\":\"She thanked her brother.\"}\n");
+  auto piped = evenhand::testing::run_evenhand(
+      d, "run --pack en-gender --in - --out " + d.file("o.jsonl") + " --edits " + d.file("e.jsonl"),
+      d.file("in.jsonl"));
+  REQUIRE(piped.code == 0);
+  CHECK(read_file(d.file("e.jsonl")).find("\"input\":\"<stdin>\"") != std::string::npos);
+  auto no_copy = run(d, "review " + d.file("e.jsonl"));
+  CHECK(no_copy.code == kUsage);
+  CHECK(no_copy.err.find("--stdin-corpus") != std::string::npos);
+  auto copy = run(d, "review " + d.file("e.jsonl") + " --stdin-corpus " + d.file("in.jsonl"));
+  CHECK(copy.code == 0);
+  CHECK(copy.out.find("\u00abShe\u2192He\u00bb thanked \u00abher\u2192his\u00bb") !=
+        std::string::npos);
 }
