@@ -23,18 +23,18 @@ int associations_command(const std::vector<std::string>& args) {
   // clang-format off
   opts.add_options()
     ("help,h", "show this help")
-    ("pack", po::value(&pack_name), "rule pack whose groups are measured (built-in name or directory)")
-    ("in", po::value(&before)->composing(), "the corpus before augmentation; repeatable")
-    ("after", po::value(&after)->composing(), "the augmented corpus; repeatable (optional)")
-    ("field", po::value(&fields)->composing(), "JSON Pointer of a field to read (with '*'); repeatable; default /text")
-    ("format", po::value(&format), "jsonl (default) or text")
+    ("pack", po::value(&pack_name)->value_name("PACK"), "rule pack whose groups are measured (built-in name or directory)")
+    ("in", po::value(&before)->value_name("PATH")->composing(), "the corpus before augmentation; repeatable")
+    ("after", po::value(&after)->value_name("PATH")->composing(), "the augmented corpus; repeatable (optional)")
+    ("field", po::value(&fields)->value_name("POINTER")->composing(), "JSON Pointer of a field to read (with '*'); repeatable; default /text")
+    ("format", po::value(&format)->value_name("jsonl|text"), "jsonl (default) or text")
     ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
-    ("targets", po::value(&targets_path), "target word list (default: the pack's targets.data)")
+    ("targets", po::value(&targets_path)->value_name("PATH"), "target word list (default: the pack's targets.data)")
     ("window", whole_number("--window", &ao.window, 1, 1000), "context: words on either side of a group word, 1 to 1000 (default 10)")
     ("prior", real_number("--prior", &ao.prior, {0, HUGE_VAL, true}), "alpha_0, total weight of the Dirichlet prior, above 0 (default 100)")
     ("permutations", whole_number("--permutations", &ao.permutations, 0, 1000000), "permutation test draws, 0 to 1000000 (default 999; 0: none)")
     ("seed", whole_number("--seed", &ao.seed, 0, UINT64_MAX), "seed of the permutation test, 0 to 2^64-1 (default 0)")
-    ("out", po::value(&out), "write the JSON here ('-' is stdout)");
+    ("out", po::value(&out)->value_name("PATH"), "write the JSON here ('-' is stdout)");
   // clang-format on
   add_protect_option(opts, protect);
   po::variables_map vm;

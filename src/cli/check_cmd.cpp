@@ -12,7 +12,7 @@ namespace evenhand::cli {
 int check_command(const std::vector<std::string>& args) {
   po::options_description opts("Options");
   std::string pack_name;
-  opts.add_options()("help,h", "show this help")("pack", po::value(&pack_name),
+  opts.add_options()("help,h", "show this help")("pack", po::value(&pack_name)->value_name("PACK"),
                                                  "a built-in pack name or a pack directory");
   po::positional_options_description pos;
   pos.add("pack", 1);

@@ -89,14 +89,15 @@ std::string describe(const RealRange& r) {
 }  // namespace
 
 po::typed_value<std::string>* real_number(const std::string& name, double* out, RealRange r) {
-  return po::value<std::string>()->notifier([name, out, r](const std::string& text) {
-    double v = 0;
-    auto [end, ec] = std::from_chars(text.data(), text.data() + text.size(), v);
-    bool fits = ec == std::errc() && end == text.data() + text.size() && std::isfinite(v) &&
-                (r.lo_open ? v > r.lo : v >= r.lo) && (r.hi_open ? v < r.hi : v <= r.hi);
-    if (!fits) bad_number(name, describe(r), text);
-    *out = v;
-  });
+  return po::value<std::string>()->value_name("X")->notifier(
+      [name, out, r](const std::string& text) {
+        double v = 0;
+        auto [end, ec] = std::from_chars(text.data(), text.data() + text.size(), v);
+        bool fits = ec == std::errc() && end == text.data() + text.size() && std::isfinite(v) &&
+                    (r.lo_open ? v > r.lo : v >= r.lo) && (r.hi_open ? v < r.hi : v <= r.hi);
+        if (!fits) bad_number(name, describe(r), text);
+        *out = v;
+      });
 }
 
 std::string utc_now() {

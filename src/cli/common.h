@@ -42,7 +42,8 @@ template <typename T>
 po::typed_value<std::string>* whole_number(const std::string& name, T* out,
                                            std::type_identity_t<T> lo, std::type_identity_t<T> hi) {
   static_assert(std::is_integral_v<T>);
-  return po::value<std::string>()->notifier([name, out, lo, hi](const std::string& text) {
+  return po::value<std::string>()->value_name("N")->notifier([name, out, lo,
+                                                              hi](const std::string& text) {
     T v{};
     auto [end, ec] = std::from_chars(text.data(), text.data() + text.size(), v);
     if (ec != std::errc() || end != text.data() + text.size() || v < lo || v > hi) {

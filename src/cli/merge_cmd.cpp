@@ -252,9 +252,10 @@ int merge_manifests_command(const std::vector<std::string>& args) {
   po::options_description opts("Options");
   std::vector<std::string> inputs;
   std::string out;
-  opts.add_options()("help,h", "show this help")("manifest", po::value(&inputs)->composing(),
-                                                 "a shard's manifest; repeatable, or positional")(
-      "out", po::value(&out), "write the merged manifest here ('-' is stdout)");
+  opts.add_options()("help,h", "show this help")(
+      "manifest", po::value(&inputs)->value_name("PATH")->composing(),
+      "a shard's manifest; repeatable, or positional")(
+      "out", po::value(&out)->value_name("PATH"), "write the merged manifest here ('-' is stdout)");
   po::positional_options_description pos;
   pos.add("manifest", -1);
   po::variables_map vm;

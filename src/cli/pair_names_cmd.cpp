@@ -16,10 +16,10 @@ int pair_names_command(const std::vector<std::string>& args) {
   // clang-format off
   opts.add_options()
     ("help,h", "show this help")
-    ("group", po::value(&groups)->composing(),
+    ("group", po::value(&groups)->value_name("GROUP=FILE")->composing(),
      "GROUP=FILE: a group's names with counts, one 'NAME<TAB or comma>COUNT' per line "
      "(a header line is allowed); give one per group, in the pack's group order")
-    ("out,o", po::value(&out), "write the [names] section here (default '-': stdout)");
+    ("out,o", po::value(&out)->value_name("PATH"), "write the [names] section here (default '-': stdout)");
   // clang-format on
   po::variables_map vm;
   int rc = parse_args("pair-names", "--group female=F.tsv --group male=M.tsv [--out FILE]", opts,

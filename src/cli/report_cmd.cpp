@@ -47,16 +47,16 @@ int report_command(const std::vector<std::string>& args) {
   // clang-format off
   opts.add_options()
     ("help,h", "show this help")
-    ("manifest", po::value(&manifest), "the run's manifest (required)")
-    ("edits", po::value(&edits), "the run's audit log: adds a sample of diffs, guarded and flagged records")
-    ("associations", po::value(&assoc), "an 'evenhand associations' result to show")
-    ("out", po::value(&out), "write the HTML page here (required)")
+    ("manifest", po::value(&manifest)->value_name("PATH"), "the run's manifest (required)")
+    ("edits", po::value(&edits)->value_name("PATH"), "the run's audit log: adds a sample of diffs, guarded and flagged records")
+    ("associations", po::value(&assoc)->value_name("PATH"), "an 'evenhand associations' result to show")
+    ("out", po::value(&out)->value_name("PATH"), "write the HTML page here (required)")
     ("sample", whole_number("--sample", &sample, 0, kMaxSample), "rewritten records to show, 0 to 1000000, spread across pack entries (default 12)")
     ("seed", whole_number("--seed", &seed, 0, UINT64_MAX), "seed of the sample, 0 to 2^64-1 (default 0)")
-    ("format", po::value(&format), "corpus format jsonl|text (default: the manifest's)")
+    ("format", po::value(&format)->value_name("jsonl|text"), "corpus format jsonl|text (default: the manifest's)")
     ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
-    ("root", po::value(&root), "read relative input paths of the audit log from this directory")
-    ("stdin-corpus", po::value(&stdin_corpus), "a copy of what the run read from standard input (logged as <stdin>)");
+    ("root", po::value(&root)->value_name("DIR"), "read relative input paths of the audit log from this directory")
+    ("stdin-corpus", po::value(&stdin_corpus)->value_name("PATH"), "a copy of what the run read from standard input (logged as <stdin>)");
   // clang-format on
   po::variables_map vm;
   int rc =

@@ -103,8 +103,8 @@ Result<balance::PlanOptions> plan_options(const BalanceArgs& b) {
 void add_balance_options(po::options_description& opts, BalanceArgs& b) {
   // clang-format off
   opts.add_options()
-    ("target", po::value(&b.target), "balance: the mix to reach, e.g. female=1,male=1")
-    ("basis", po::value(&b.basis), "balance: count mentions (default) or records")
+    ("target", po::value(&b.target)->value_name("SPEC"), "balance: the mix to reach, e.g. female=1,male=1")
+    ("basis", po::value(&b.basis)->value_name("mentions|records"), "balance: count mentions (default) or records")
     ("tolerance", real_number("--tolerance", &b.tolerance, {0, 1, true, true}), "balance: allowed distance of each share from the target, above 0 and below 1 (default 0.02)")
     ("allow-drop", po::bool_switch(&b.allow_drop), "balance: the plan may leave records out")
     ("no-add", po::bool_switch(&b.no_add), "balance: the plan may not add counterfactual copies")
@@ -179,13 +179,13 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
   add_corpus_options(opts, a);
   // clang-format off
   opts.add_options()
-    ("out", po::value(&ro.output), "output file ('-' is stdout); .zst/.gz names are compressed")
-    ("manifest", po::value(&manifest_path), "write the run manifest (JSON) here")
-    ("edits", po::value(&ro.edits_path), "write the audit log (JSONL, one line per rewritten record) here")
-    ("mode", po::value(&mode), "augment (add a counterfactual copy after each record with mentions; default), substitute (replace with probability --rate), balance (reach --target with the fewest changes, or apply --plan), passthrough (copy and validate only)")
+    ("out", po::value(&ro.output)->value_name("PATH"), "output file ('-' is stdout); .zst/.gz names are compressed")
+    ("manifest", po::value(&manifest_path)->value_name("PATH"), "write the run manifest (JSON) here")
+    ("edits", po::value(&ro.edits_path)->value_name("PATH"), "write the audit log (JSONL, one line per rewritten record) here")
+    ("mode", po::value(&mode)->value_name("MODE"), "augment (add a counterfactual copy after each record with mentions; default), substitute (replace with probability --rate), balance (reach --target with the fewest changes, or apply --plan), passthrough (copy and validate only)")
     ("rate", real_number("--rate", &ro.rate, {0, 1}), "substitute: probability that a record with mentions is replaced, 0 to 1 (default 0.5)")
-    ("plan", po::value(&b.plan_path), "balance: apply this plan (from 'evenhand plan') instead of making one")
-    ("compress", po::value(&compress), "output compression: auto (by name), none, zstd, gzip")
+    ("plan", po::value(&b.plan_path)->value_name("PATH"), "balance: apply this plan (from 'evenhand plan') instead of making one")
+    ("compress", po::value(&compress)->value_name("auto|none|zstd|gzip"), "output compression: auto (by name), none, zstd, gzip")
     ("zstd-level", whole_number("--zstd-level", &so.zstd_level, zl.lo, zl.hi), ("zstd level, " + range(zl) + " (default 3; 0: libzstd's default; below 1: faster)").c_str())
     ("zstd-threads", whole_number("--zstd-threads", &so.zstd_workers, zw.lo, zw.hi), ("zstd worker threads, " + range(zw) + " (default 0: in the writer thread)").c_str())
     ("gzip-level", whole_number("--gzip-level", &so.gzip_level, gl.lo, gl.hi), "gzip level, -1 to 9 (default 6; -1: zlib's default; 0: store)")
@@ -354,7 +354,8 @@ int tally_command(const std::vector<std::string>& args) {
   CorpusArgs a;
   std::string out;
   add_corpus_options(opts, a);
-  opts.add_options()("out", po::value(&out), "write the tally (JSON) here ('-' is stdout)");
+  opts.add_options()("out", po::value(&out)->value_name("PATH"),
+                     "write the tally (JSON) here ('-' is stdout)");
   po::variables_map vm;
   int rc = parse_args("tally", "--pack PACK --in PATH [--in PATH ...] --out TALLY.json [OPTIONS]",
                       opts, args, vm);
@@ -402,9 +403,9 @@ int plan_command(const std::vector<std::string>& args) {
   std::string out;
   bool quiet = false;
   opts.add_options()("help,h", "show this help")(
-      "tally", po::value(&tallies)->composing(),
+      "tally", po::value(&tallies)->value_name("PATH")->composing(),
       "a tally from 'evenhand tally'; repeatable: the tallies of shards are merged")(
-      "out", po::value(&out), "write the plan (JSON) here ('-' is stdout)")(
+      "out", po::value(&out)->value_name("PATH"), "write the plan (JSON) here ('-' is stdout)")(
       "quiet,q", po::bool_switch(&quiet), "print nothing but errors");
   add_balance_options(opts, b);
   po::variables_map vm;

@@ -42,11 +42,14 @@ TEST_CASE("version and help on every command") {
   auto v = run(d, "--version");
   REQUIRE(v.code == 0);
   REQUIRE(v.out.rfind("evenhand ", 0) == 0);
-  for (const char* c : {"run", "check", "packs"}) {
+  for (const char* c : {"run", "check", "packs", "tally", "plan", "merge-manifests", "review",
+                        "report", "associations", "pair-names"}) {
     auto h = run(d, std::string(c) + " --help");
     INFO(c);
     REQUIRE(h.code == 0);
     REQUIRE(h.out.find("Usage: evenhand " + std::string(c)) == 0);
+    // Every option that takes a value names it (PATH, N, jsonl|text), never a bare "arg".
+    CHECK(h.out.find(" arg ") == std::string::npos);
   }
   REQUIRE(run(d, "frobnicate").code == kUsage);
   REQUIRE(run(d, "run --no-such-option").code == kUsage);
