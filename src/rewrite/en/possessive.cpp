@@ -272,16 +272,15 @@ bool object_rule(const PossessiveWords& lex, std::string_view prev, std::string_
   if (adverb && !lex.has(Set::adverb_noun, next) && !nominal_class(after_class)) return true;
   // 2. A closed-class word that never follows a determiner: an article, pronoun, subordinator,
   //    "to", a wh-word or existential "there" ("gave her the key", "told her that", "tell her
-  //    anything"). "every" (after-possessive) is left out ("her every wish"). Odd files: her 110 /
-  //    1 (a tag error: "defend her to the gang"); other pronouns 629 / 3.
+  //    anything"). "every" (after-possessive) is left out ("her every wish"). Odd files:
+  //    her 110 / 1 (a tag error: "defend her to the gang"); other pronouns 629 / 3.
   if (!lex.has(Set::after_possessive, next) &&
       in_list(next_class, {"at", "pn", "ppo", "pps", "ppss", "ppl", "ppls", "pp$", "cs", "to",
                            "wdt", "wrb", "wps", "wpo", "ex"})) {
     return true;
   }
-  // 3. Day words used as adverbs (day-adverb): "dinner with her tomorrow night". Odd files: her 1 /
-  // 0; other
-  //    pronouns 4 / 0.
+  // 3. Day words used as adverbs (day-adverb): "dinner with her tomorrow night". Odd files:
+  //    her 1 / 0; other pronouns 4 / 0.
   if (lex.has(Set::day_adverb, next)) return true;
   // 4. A verbal "-ing" form followed by its own complement: "the idea of her going out", "of her
   //    having been", "turned to her standing there". Brown tags "her" there as the object
@@ -294,11 +293,12 @@ bool object_rule(const PossessiveWords& lex, std::string_view prev, std::string_
     return true;
   }
   // 5. A verb of the object-participle-verb set (word-classes.data: the forms of have, get,
-  //    make, see, hear, find, keep, leave, want, watch and feel), then a past participle (class vbn
-  //    or vbd, or an unknown word in "-ed") not followed by a nominal: "got her acquitted", "had
-  //    her arrested" (not "had her broken arm"). Odd files: her 5 object / 0 PP$; other pronouns 12
-  //    / 0. The cross-validation already had all five right, so this changes no figure there; it is
-  //    for unseen verbs and participles (the even-file analysis in possessive.h found such misses).
+  //    make, see, hear, find, keep, leave, want, watch and feel), then a past participle
+  //    (class vbn or vbd, or an unknown word in "-ed") not followed by a nominal: "got her
+  //    acquitted", "had her arrested" (not "had her broken arm"). Odd files: her 5 object /
+  //    0 PP$; other pronouns 12 / 0. The cross-validation already had all five right, so this
+  //    changes no figure there; it is for unseen verbs and participles (the even-file
+  //    analysis in possessive.h found such misses).
   if (lex.has(Set::object_participle_verb, prev) &&
       (in_list(next_class, {"vbn", "vbd"}) || (next_class == "?" && ends_with(next, "ed"))) &&
       !nominal_class(after_class)) {
