@@ -126,7 +126,8 @@ class PersonContext;
 }
 
 // The pack's data files the engine reads, parsed; each is null when the pack has no such file
-// (possessive.model, verbs.data, noun-phrase.data with the three files it needs,
+// (possessive.model with word-classes.data, verbs.data, noun-phrase.data with the three files
+// it needs,
 // person-context.data).
 struct EngineData {
   std::shared_ptr<const PossessiveModel> possessive;

@@ -36,7 +36,6 @@ namespace evenhand::rewrite {
 
 namespace {
 
-constexpr const char* kPossessiveModelFile = "possessive.model";
 // A context decision whose margin is below this is counted as ambiguous (it is still made).
 constexpr float kLowMargin = 1.0f;
 
@@ -986,8 +985,8 @@ Result<EngineData> load_engine_data(const std::shared_ptr<const pack::CompiledPa
     else
       problems.push_back(std::move(loaded).error());
   };
-  if (const std::string* text = pack->file(kPossessiveModelFile))
-    take(PossessiveModel::parse(*text, pack->file_path(kPossessiveModelFile)), data.possessive);
+  if (pack->file(kPossessiveModelFile) || pack->file(kWordClassesFile))
+    take(PossessiveModel::from_pack(*pack), data.possessive);
   if (pack->file(kVerbsFile)) take(VerbTable::from_pack(*pack), data.verbs);
   if (pack->file(kNounPhraseFile)) take(NounPhraseAgreement::from_pack(pack), data.noun_phrases);
   if (pack->file(en::kPersonContextFile)) take(en::PersonContext::from_pack(*pack), data.persons);

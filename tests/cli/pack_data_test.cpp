@@ -1,7 +1,8 @@
 // A pack's data files through the command line: `check` runs every loader `run` runs, so a
-// corrupt possessive.model, verbs.data or noun-phrase data file is refused by both with the
-// same one-line message naming the folder as given, the file and the line; and a target of
-// targets.data that the pack rewrites is refused by check, run and associations.
+// corrupt possessive.model, word-classes.data, verbs.data or noun-phrase data file is refused
+// by both with the same one-line message naming the folder as given, the file and the line;
+// and a target of targets.data that the pack rewrites is refused by check, run and
+// associations.
 #include <catch2/catch.hpp>
 
 #include <filesystem>
@@ -160,6 +161,34 @@ TEST_CASE("check and run refuse a corrupt possessive.model alike, naming folder 
          return line_at(t, p);
        },
        "lines left in the file"},
+  };
+  for (const auto& c : cases) refused_alike("en-gender", c);
+}
+
+TEST_CASE("check and run refuse a corrupt word-classes.data alike, naming folder and line") {
+  const std::vector<Corruption> cases = {
+      {"unknown kind", "word-classes.data",
+       [](std::string& t) { return replace_line(t, "determiner the", "article the"); },
+       "unknown kind 'article'"},
+      {"two words on a line", "word-classes.data",
+       [](std::string& t) { return replace_line(t, "determiner the", "determiner the a"); },
+       "a record is: KIND WORD"},
+      {"upper case", "word-classes.data",
+       [](std::string& t) { return replace_line(t, "determiner the", "determiner The"); },
+       "is not a lower-case word"},
+      {"two closed classes", "word-classes.data",
+       [](std::string& t) {
+         t += "preposition the\n";
+         return line_at(t, t.size() - 1);
+       },
+       "already has a closed class"},
+      {"no format line", "word-classes.data",
+       [](std::string& t) {
+         return replace_line(t, "format evenhand-word-classes", "determiner the");
+       },
+       "the first record must be"},
+      // The model is read with its word lists: without them the pack does not load.
+      {"missing file", "word-classes.data", nullptr, "missing (the pack has possessive.model"},
   };
   for (const auto& c : cases) refused_alike("en-gender", c);
 }

@@ -54,6 +54,21 @@ std::string read_file(const std::string& path, bool& ok) {
   return ss.str();
 }
 
+// The pack's word lists (rules/en-gender/word-classes.data), which the model is trained and
+// read with.
+std::shared_ptr<const evenhand::rewrite::PossessiveWords> shipped_words() {
+  static const auto words = [] {
+    bool ok = false;
+    std::string path = source_dir() + "/rules/en-gender/word-classes.data";
+    std::string text = read_file(path, ok);
+    if (!ok) FAIL("cannot read " + path);
+    auto parsed = evenhand::rewrite::PossessiveWords::parse(text, path);
+    if (!parsed) FAIL(parsed.error().message());
+    return parsed.value();
+  }();
+  return words;
+}
+
 // ---- Brown Corpus (form C, one tagged sentence per line: word/tag word/tag ...) -----------
 
 struct BrownSentence {
@@ -376,7 +391,7 @@ std::shared_ptr<const PossessiveModel> shipped_model() {
   bool ok = false;
   std::string text = read_file(model_path(), ok);
   REQUIRE(ok);
-  auto model = PossessiveModel::parse(text, "possessive.model");
+  auto model = PossessiveModel::parse(text, shipped_words(), "possessive.model");
   if (!model) FAIL(model.error().message());
   return model.value();
 }
@@ -459,7 +474,7 @@ const char* kRuleModel =
 }  // namespace
 
 TEST_CASE("possessive: the rules that come before the weights", "[possessive]") {
-  auto parsed = PossessiveModel::parse(kRuleModel, "rules");
+  auto parsed = PossessiveModel::parse(kRuleModel, shipped_words(), "rules");
   REQUIRE(parsed.ok());
   const PossessiveModel& m = *parsed.value();
   CHECK(m.feature_count() == 0);
@@ -518,7 +533,7 @@ TEST_CASE("possessive: the shipped model file loads", "[possessive]") {
 }
 
 TEST_CASE("possessive: scores follow the weights of a hand-made model", "[possessive]") {
-  auto parsed = PossessiveModel::parse(kTinyModel, "tiny");
+  auto parsed = PossessiveModel::parse(kTinyModel, shipped_words(), "tiny");
   REQUIRE(parsed.ok());
   const PossessiveModel& m = *parsed.value();
   CHECK(m.feature_count() == 3);
@@ -619,7 +634,7 @@ TEST_CASE("possessive: corrupt model files are errors", "[possessive]") {
   };
   for (const Case& c : cases) {
     INFO(c.text);
-    auto r = PossessiveModel::parse(c.text, "broken.model");
+    auto r = PossessiveModel::parse(c.text, shipped_words(), "broken.model");
     REQUIRE_FALSE(r.ok());
     CHECK(r.error().kind == ErrorKind::pack);
     CHECK(r.error().file == "broken.model");
@@ -633,7 +648,7 @@ TEST_CASE("possessive: corrupt model files are errors", "[possessive]") {
   size_t tab = text.find('\t', text.find("\nfeatures "));
   REQUIRE(tab != std::string::npos);
   text.insert(tab + 1, "q");
-  auto r = PossessiveModel::parse(text, "possessive.model");
+  auto r = PossessiveModel::parse(text, shipped_words(), "possessive.model");
   REQUIRE_FALSE(r.ok());
   CHECK(r.error().reason.find("not an integer") != std::string::npos);
 }
@@ -778,7 +793,8 @@ TEST_CASE("possessive: retraining on the odd Brown files reproduces the shipped 
           "[possessive][brown]") {
   const auto& files = brown();
   TrainingSet set = build_training_set(files);
-  std::string text = evenhand::rewrite::train_possessive_model(set.examples, set.options);
+  std::string text =
+      evenhand::rewrite::train_possessive_model(set.examples, *shipped_words(), set.options);
   bool ok = false;
   std::string shipped = read_file(model_path(), ok);
   REQUIRE(ok);
@@ -794,12 +810,13 @@ TEST_CASE("possessive: train the model from the odd Brown files", "[.train]") {
   if (!out || !*out) FAIL("set EVENHAND_POSSESSIVE_MODEL_OUT to the model file to write");
   const auto& files = brown();
   TrainingSet set = build_training_set(files);
-  std::string text = evenhand::rewrite::train_possessive_model(set.examples, set.options);
+  std::string text =
+      evenhand::rewrite::train_possessive_model(set.examples, *shipped_words(), set.options);
   std::ofstream o(out, std::ios::binary);
   o << text;
   o.close();
   REQUIRE(o.good());
-  auto model = PossessiveModel::parse(text, out);
+  auto model = PossessiveModel::parse(text, shipped_words(), out);
   REQUIRE(model.ok());
   WARN("wrote " << out << ": " << set.examples.size() << " training examples, "
                 << model.value()->feature_count() << " features, " << text.size() << " bytes");
@@ -827,8 +844,9 @@ TEST_CASE("possessive: cross-validation inside the odd Brown files", "[.cv]") {
     };
     TrainingSet set = build_training_set(
         files, [&](const BrownFile& f) { return is_training_file(f) && !in_fold(f); });
-    std::string text = evenhand::rewrite::train_possessive_model(set.examples, set.options);
-    auto model = PossessiveModel::parse(text, "cv.model");
+    std::string text =
+        evenhand::rewrite::train_possessive_model(set.examples, *shipped_words(), set.options);
+    auto model = PossessiveModel::parse(text, shipped_words(), "cv.model");
     REQUIRE(model.ok());
     Accuracy her, his;
     evaluate(*model.value(), files, her, his, in_fold, list_misses);

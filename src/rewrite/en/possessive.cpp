@@ -7,9 +7,13 @@
 #include <random>
 #include <utility>
 
+#include "rewrite/en/possessive_words.h"
+
 namespace evenhand::rewrite {
 
 namespace {
+
+using Set = PossessiveWords::Set;
 
 constexpr std::string_view kMagic = "evenhand-possessive-model 1";
 constexpr std::string_view kClasses = "determiner object standalone";
@@ -52,105 +56,6 @@ std::string_view target_name(Target t) {
       break;
   }
   return "other";
-}
-
-// ---- Closed-class lexicon ---------------------------------------------------------------
-
-// Small hand-made lists of closed-class words (common practice in part-of-speech work) and of
-// verbs that commonly take an object; the perceptron learns what each category implies.
-constexpr std::string_view kDet =
-    "the a an this that these those some any no every each all both either neither another "
-    "such what which whose many much few several more most less enough half whatever whichever";
-constexpr std::string_view kPrep =
-    "of in on at for with by from into onto upon about against among amongst between through "
-    "throughout during without within under over above below beneath behind beside besides "
-    "near toward towards across along around after before since until till like unlike than "
-    "past via despite except beyond inside outside off up down out per amid";
-constexpr std::string_view kConj = "and or but nor yet so";
-constexpr std::string_view kSub =
-    "if because although though while when where whether unless as once whenever wherever lest "
-    "who whom how why";
-constexpr std::string_view kSubj = "i you he she it we they";
-constexpr std::string_view kObj = "me him us them";
-constexpr std::string_view kPoss = "my your his our their its";
-constexpr std::string_view kStand = "mine yours hers ours theirs";
-constexpr std::string_view kAux =
-    "be is are was were am been being have has had having do does did will would shall should "
-    "can could may might must ought 'd 'll 're 've 'm";
-constexpr std::string_view kNeg = "not never n't";
-constexpr std::string_view kVerbObj =
-    "give gives gave given giving tell tells told telling show shows showed shown showing ask "
-    "asks asked asking offer offers offered offering send sends sent sending bring brings "
-    "brought bringing teach teaches taught teaching buy buys bought buying hand handed handing "
-    "make makes made making let lets letting help helps helped helping see sees saw seen seeing "
-    "watch watched watching hear hears heard hearing feel feels felt find finds found finding "
-    "call calls called calling keep keeps kept keeping leave leaves leaving take takes took "
-    "taken taking pay pays paid paying promise promised lend lent get gets got gotten getting "
-    "wish wished allow allows allowed want wants wanted expect expected kiss kissed kissing love "
-    "loves loved meet meets met meeting marry married hold holds held holding pull pulled touch "
-    "touched thank thanked remind reminded save saved hurt warn warned invite invited urge urged "
-    "force forced order ordered introduce introduced lead led drive drove carry carried wake "
-    "woke greet greeted stop stopped catch caught join joined visit visited answer answered "
-    "persuade persuaded convince convinced assure assured follow followed";
-
-class Lexicon {
- public:
-  Lexicon() {
-    add(kDet, "det");
-    add(kPrep, "prep");
-    add(kConj, "conj");
-    add(kSub, "sub");
-    add(kSubj, "subj");
-    add(kObj, "obj");
-    add(kPoss, "poss");
-    add(kStand, "stand");
-    add(kAux, "aux");
-    add(kNeg, "neg");
-    add(kVerbObj, "vobj");
-    map_.emplace("to", "to");
-    map_.emplace("her", "her");
-  }
-  // Category of a folded word, or "w" for an open-class word.
-  std::string_view cat(std::string_view folded) const {
-    const std::string_view* c = map_.find(folded);
-    return c == nullptr ? std::string_view("w") : *c;
-  }
-
- private:
-  void add(std::string_view list, std::string_view cat) {
-    size_t pos = 0;
-    while (pos < list.size()) {
-      size_t end = list.find(' ', pos);
-      if (end == std::string_view::npos) end = list.size();
-      if (end > pos) map_.emplace(list.substr(pos, end - pos), cat);  // first list wins
-      pos = end + 1;
-    }
-  }
-  FlatStringMap<std::string_view> map_;  // probed for every window word of every decision
-};
-
-const Lexicon& lexicon() {
-  static const Lexicon lex;
-  return lex;
-}
-
-// Finite forms of "be", "have" and "do" and the modals that are not also nouns, sorted. A
-// determiner needs a nominal after it, so "her"/"his" right before one of these is the object or
-// the standalone possessive ("about her was", "a rage of his would"). In the odd Brown files
-// her, his, my, your, our, their, mine, yours, hers, ours and theirs stand before these words 16
-// times: 14 are tagged PP$$ or PPO, 2 PP$, both tag errors ("his was the silliest", "about her
-// was that"); in 4-fold cross-validation there the rule turns 2 "his" misses into hits and
-// changes no "her" result.
-// Left out because they are nouns too: will, may, might, must, can, do ("her will").
-constexpr std::array<std::string_view, 29> kFiniteVerbs = {
-    "am",      "are",     "aren't", "can't", "could",   "couldn't",  "did",    "didn't",
-    "does",    "doesn't", "don't",  "had",   "hadn't",  "has",       "hasn't", "have",
-    "haven't", "is",      "isn't",  "shall", "should",  "shouldn't", "was",    "wasn't",
-    "were",    "weren't", "won't",  "would", "wouldn't"};
-static_assert(std::is_sorted(kFiniteVerbs.begin(), kFiniteVerbs.end()));
-
-bool is_finite_verb(std::string_view folded) {
-  return std::binary_search(kFiniteVerbs.begin(), kFiniteVerbs.end(), folded);
 }
 
 // ---- Token normalisation ------------------------------------------------------------------
@@ -326,8 +231,9 @@ std::string_view shape(const Tok& t) {
   return "x";
 }
 
-std::string_view category(const Tok& t) {
-  return t.is_word ? lexicon().cat(t.text()) : t.symbol;
+// The closed-class category of a token (word-classes.data), or its punctuation kind.
+std::string_view category(const PossessiveWords& lex, const Tok& t) {
+  return t.is_word ? lex.category(t.text()) : t.symbol;
 }
 
 bool in_list(std::string_view w, std::initializer_list<std::string_view> list) {
@@ -350,42 +256,32 @@ bool nominal_class(std::string_view c) {
                   "jjt", "od",  "cd", "ap",  "vbn", "vbd", "vbg",  "hvg", "beg", "?",   "<num>"});
 }
 
-// Verbs that take an object and then a past participle ("got her acquitted", "had her
-// arrested", "saw her settled"): the forms of have, get, make, see, hear, find, keep, leave,
-// want, watch and feel, sorted.
-constexpr std::array<std::string_view, 42> kObjectParticipleVerbs = {
-    "feel",    "feels", "felt",   "find",    "finding", "finds",  "found",  "get",    "gets",
-    "getting", "got",   "gotten", "had",     "has",     "have",   "having", "hear",   "heard",
-    "hearing", "hears", "keep",   "keeping", "keeps",   "kept",   "leave",  "leaves", "leaving",
-    "left",    "made",  "make",   "makes",   "making",  "saw",    "see",    "seeing", "seen",
-    "sees",    "want",  "wanted", "wants",   "watch",   "watched"};
-static_assert(std::is_sorted(kObjectParticipleVerbs.begin(), kObjectParticipleVerbs.end()));
-
 // Whether "her" between the folded words `prev` and `next` is the object by rule.
-bool object_rule(std::string_view prev, std::string_view next, std::string_view next_class,
-                 std::string_view after_class) {
+bool object_rule(const PossessiveWords& lex, std::string_view prev, std::string_view next,
+                 std::string_view next_class, std::string_view after_class) {
   // 1. An adverb or particle not followed by a nominal: "disliked her intensely", "picked her
   //    up", "watched her somewhat enviously" (not "her unusually searching tours"). Unknown
   //    words in -ly count as adverbs unless a comma follows ("her portly , well-bred way").
-  //    "back" is left to the model: it is a noun as often ("rubbed her back briefly").
+  //    "back" (word-classes.data: adverb-noun) is left to the model: it is a noun as often
+  //    ("rubbed her back briefly").
   //    Odd files: her 53 object / 1 PP$ (a tag error: "seen her somewhere before");
   //    other pronouns 211 / 3.
   bool adverb =
       in_list(next_class, {"rb", "ql", "rbr", "rbt", "rn", "rp"}) ||
       (next_class == "?" && next.size() > 4 && ends_with(next, "ly") && after_class != ",");
-  if (adverb && next != "back" && !nominal_class(after_class)) return true;
+  if (adverb && !lex.has(Set::adverb_noun, next) && !nominal_class(after_class)) return true;
   // 2. A closed-class word that never follows a determiner: an article, pronoun, subordinator,
   //    "to", a wh-word or existential "there" ("gave her the key", "told her that", "tell her
-  //    anything"). "every" is left out ("her every wish"). Odd files: her 110 / 1 (a tag error:
-  //    "defend her to the gang"); other pronouns 629 / 3.
-  if (next != "every" &&
+  //    anything"). "every" (after-possessive) is left out ("her every wish"). Odd files:
+  //    her 110 / 1 (a tag error: "defend her to the gang"); other pronouns 629 / 3.
+  if (!lex.has(Set::after_possessive, next) &&
       in_list(next_class, {"at", "pn", "ppo", "pps", "ppss", "ppl", "ppls", "pp$", "cs", "to",
                            "wdt", "wrb", "wps", "wpo", "ex"})) {
     return true;
   }
-  // 3. Day words used as adverbs: "dinner with her tomorrow night". Odd files: her 1 / 0; other
-  //    pronouns 4 / 0.
-  if (in_list(next, {"today", "tomorrow", "tonight", "yesterday"})) return true;
+  // 3. Day words used as adverbs (day-adverb): "dinner with her tomorrow night". Odd files:
+  //    her 1 / 0; other pronouns 4 / 0.
+  if (lex.has(Set::day_adverb, next)) return true;
   // 4. A verbal "-ing" form followed by its own complement: "the idea of her going out", "of her
   //    having been", "turned to her standing there". Brown tags "her" there as the object
   //    (odd files: her 7 PPO / 2 PP$), while "his", "their" and "our" before such a gerund are
@@ -396,12 +292,14 @@ bool object_rule(std::string_view prev, std::string_view next, std::string_view 
                "ppo", "pps", "ppss", "ppl", "pp$", "ben", "hvn", "vbn", "to",  "ex"})) {
     return true;
   }
-  // 5. A verb of kObjectParticipleVerbs, then a past participle (class vbn or vbd, or an unknown
-  //    word in "-ed") not followed by a nominal: "got her acquitted", "had her arrested" (not
-  //    "had her broken arm"). Odd files: her 5 object / 0 PP$; other pronouns 12 / 0. The
-  //    cross-validation already had all five right, so this changes no figure there; it is for
-  //    unseen verbs and participles (the even-file analysis in possessive.h found such misses).
-  if (std::binary_search(kObjectParticipleVerbs.begin(), kObjectParticipleVerbs.end(), prev) &&
+  // 5. A verb of the object-participle-verb set (word-classes.data: the forms of have, get,
+  //    make, see, hear, find, keep, leave, want, watch and feel), then a past participle
+  //    (class vbn or vbd, or an unknown word in "-ed") not followed by a nominal: "got her
+  //    acquitted", "had her arrested" (not "had her broken arm"). Odd files: her 5 object /
+  //    0 PP$; other pronouns 12 / 0. The cross-validation already had all five right, so this
+  //    changes no figure there; it is for unseen verbs and participles (the even-file
+  //    analysis in possessive.h found such misses).
+  if (lex.has(Set::object_participle_verb, prev) &&
       (in_list(next_class, {"vbn", "vbd"}) || (next_class == "?" && ends_with(next, "ed"))) &&
       !nominal_class(after_class)) {
     return true;
@@ -433,8 +331,9 @@ class FeatureBuf {
 
 // Calls emit(std::string_view) once per feature of words[i] (i < words.size()).
 template <typename WordClass, typename Possessed, typename Emit>
-void extract_features(std::span<const std::string_view> words, size_t i, Target target,
-                      const WordClass& word_class, const Possessed& possessed, Emit&& emit) {
+void extract_features(const PossessiveWords& lex, std::span<const std::string_view> words, size_t i,
+                      Target target, const WordClass& word_class, const Possessed& possessed,
+                      Emit&& emit) {
   static const std::string_view kStart = "<s>";
   static const std::string_view kEnd = "</s>";
   // Window: [0]=i-2, [1]=i-1, [2]=i+1, [3]=i+2.
@@ -494,7 +393,8 @@ void extract_features(std::span<const std::string_view> words, size_t i, Target 
     emit(f.start("s2p:").add(suffix(p1.text(), 2)).view());
     emit(f.start("s3p:").add(suffix(p1.text(), 3)).view());
   }
-  std::string_view cp2 = category(p2), cp1 = category(p1), cn1 = category(n1), cn2 = category(n2);
+  std::string_view cp2 = category(lex, p2), cp1 = category(lex, p1), cn1 = category(lex, n1),
+                   cn2 = category(lex, n2);
   emit(f.start("hn:").add(shape(n1)).view());
   emit(f.start("hp:").add(shape(p1)).view());
   emit(f.start("cp:").add(cp1).view());
@@ -595,9 +495,29 @@ const char* decision_kind_name(Decision::Kind kind) {
   return "determiner";
 }
 
-Result<std::shared_ptr<const PossessiveModel>> PossessiveModel::parse(std::string_view text,
-                                                                      std::string_view label) {
+Result<std::shared_ptr<const PossessiveModel>> PossessiveModel::from_pack(
+    const pack::CompiledPack& pack) {
+  const std::string* model_text = pack.file(kPossessiveModelFile);
+  const std::string* words_text = pack.file(kWordClassesFile);
+  if (model_text == nullptr || words_text == nullptr) {
+    const char* missing = model_text == nullptr ? kPossessiveModelFile : kWordClassesFile;
+    const char* other = model_text == nullptr ? kWordClassesFile : kPossessiveModelFile;
+    return make_error(ErrorKind::pack, pack.file_path(missing),
+                      std::string("missing (the pack has ") + other + ", which needs it)");
+  }
+  auto words = PossessiveWords::parse(*words_text, pack.file_path(kWordClassesFile));
+  if (!words.ok()) return std::move(words).error();
+  return parse(*model_text, std::move(*words), pack.file_path(kPossessiveModelFile));
+}
+
+Result<std::shared_ptr<const PossessiveModel>> PossessiveModel::parse(
+    std::string_view text, std::shared_ptr<const PossessiveWords> words, std::string_view label) {
+  if (words == nullptr) {
+    return make_error(ErrorKind::pack, std::string(label.empty() ? "possessive model" : label),
+                      "no word classes (word-classes.data) to read it with");
+  }
   std::shared_ptr<PossessiveModel> model(new PossessiveModel());
+  model->words_ = std::move(words);
   size_t pos = 0;
   uint64_t line_no = 0;
   auto next_line = [&](std::string_view& line) {
@@ -750,7 +670,7 @@ Decision PossessiveModel::decide(std::span<const std::string_view> words, size_t
     bool clause_ends = i + 1 >= words.size();
     if (!clause_ends) {
       normalise(words[i + 1], next);
-      clause_ends = next.is_word ? is_finite_verb(next.text())
+      clause_ends = next.is_word ? words_->has(Set::finite_verb, next.text())
                                  : (next.ends_sentence || next.symbol == "," || next.symbol == ";");
     }
     if (clause_ends) {
@@ -769,7 +689,7 @@ Decision PossessiveModel::decide(std::span<const std::string_view> words, size_t
       if (target == Target::her) {
         Tok prev;  // "" at the start of the input
         if (i > 0) normalise(words[i - 1], prev);
-        if (object_rule(prev.text(), next.text(), next_class, after_class)) {
+        if (object_rule(*words_, prev.text(), next.text(), next_class, after_class)) {
           return Decision{Decision::object, kRuleScore};
         }
       }
@@ -781,7 +701,7 @@ Decision PossessiveModel::decide(std::span<const std::string_view> words, size_t
       // are adjectives there ("his inside pocket", "his near neighbour"); common practice of
       // English grammar.
       if (target == Target::his && next_class == "in" &&
-          !(in_list(next.text(), {"inside", "outside", "near"}) && nominal_class(after_class))) {
+          !(words_->has(Set::adjective_preposition, next.text()) && nominal_class(after_class))) {
         return Decision{Decision::standalone, kRuleScore};
       }
     }
@@ -792,7 +712,7 @@ Decision PossessiveModel::decide(std::span<const std::string_view> words, size_t
     const std::string* share = possessed_.find(w);
     return share == nullptr ? std::string_view("?") : std::string_view(*share);
   };
-  extract_features(words, i, target, word_class, possessed, [&](std::string_view f) {
+  extract_features(*words_, words, i, target, word_class, possessed, [&](std::string_view f) {
     const std::array<int64_t, 3>* w = weights_.find(f);
     if (w == nullptr) return;
     for (int k = 0; k < kClassCount; ++k) scores[k] += (*w)[k];
@@ -801,6 +721,7 @@ Decision PossessiveModel::decide(std::span<const std::string_view> words, size_t
 }
 
 std::string train_possessive_model(std::span<const PossessiveExample> examples,
+                                   const PossessiveWords& words,
                                    const PossessiveTrainOptions& options) {
   // Word classes that can be written (no white space in either part) and can be looked up
   // (the word is a word to the features, already in folded form).
@@ -857,7 +778,7 @@ std::string train_possessive_model(std::span<const PossessiveExample> examples,
     current = &ex;
     Target target = target_of(view[ex.index]);
     allowed[e] = allowed_classes(target) | (1u << ex.gold);
-    extract_features(view, ex.index, target, word_class, possessed, [&](std::string_view f) {
+    extract_features(words, view, ex.index, target, word_class, possessed, [&](std::string_view f) {
       auto [it, fresh] = ids.emplace(std::string(f), static_cast<uint32_t>(names.size()));
       if (fresh) {
         names.emplace_back(f);

@@ -14,7 +14,9 @@
 //   - the last two and three letters of the previous and next words, a word shape (hyphen,
 //     "'s", "-ly", "-ing", "-ed", "-s"), and a closed-class category (determiner, preposition,
 //     conjunction, subordinator, subject/object pronoun, possessive, auxiliary, negation,
-//     "to", verb that commonly takes an object; else open-class), alone and in pairs;
+//     "to", verb that commonly takes an object; else open-class), alone and in pairs; the
+//     categories' words, and the word sets the rules below name, are the pack's
+//     word-classes.data (possessive_words.h), which the model is trained and read with;
 //   - a word class: the word's most frequent Brown tag in the training files (words seen at
 //     least twice; the lexicon ships in the model), alone, in pairs and triples, and joined with
 //     the next word's shape or last letters ("-ly" before a noun vs before a preposition);
@@ -114,8 +116,13 @@
 #include "base/flat_map.h"
 #include "base/status.h"
 #include "base/word_hash.h"
+#include "pack/pack.h"
+#include "rewrite/en/possessive_words.h"
 
 namespace evenhand::rewrite {
+
+// The pack file of the model; it is read with the pack's kWordClassesFile.
+inline constexpr const char* kPossessiveModelFile = "possessive.model";
 
 // The answer for one pronoun.
 struct Decision {
@@ -143,13 +150,18 @@ class PossessiveModel {
   PossessiveModel(const PossessiveModel&) = delete;
   PossessiveModel& operator=(const PossessiveModel&) = delete;
 
-  // Parses a model file's text. Returns an Error (kind pack, naming `file_label` and the
-  // 1-based line) when the header, a word or weight line, a count or the end marker is wrong,
-  // or a word or feature is listed twice. A count (words, possessed, features) above the
-  // number of lines left in the text is refused before anything is allocated for it. The
-  // "possessed" section is optional.
-  static Result<std::shared_ptr<const PossessiveModel>> parse(std::string_view model_text,
-                                                              std::string_view file_label = {});
+  // Parses a model file's text, to be used with `words` (the word lists it was trained with).
+  // Returns an Error (kind pack, naming `file_label` and the 1-based line) when the header, a
+  // word or weight line, a count or the end marker is wrong, or a word or feature is listed
+  // twice; and one without a line when `words` is null. A count (words, possessed, features)
+  // above the number of lines left in the text is refused before anything is allocated for
+  // it. The "possessed" section is optional.
+  static Result<std::shared_ptr<const PossessiveModel>> parse(
+      std::string_view model_text, std::shared_ptr<const PossessiveWords> words,
+      std::string_view file_label = {});
+  // Reads a pack's kPossessiveModelFile with its kWordClassesFile; an Error (kind pack, naming
+  // the file by CompiledPack::file_path and the line) when either is wrong, or one is missing.
+  static Result<std::shared_ptr<const PossessiveModel>> from_pack(const pack::CompiledPack& pack);
 
   // Decides for words[i]. `words` is a sequence of tokens, lower-cased (ASCII upper case and
   // the typographic apostrophe are folded anyway), white space left out, each punctuation mark
@@ -175,6 +187,7 @@ class PossessiveModel {
   FlatStringMap<std::string> word_classes_;
   // Folded word -> label of how often it follows a possessive determiner (optional section).
   FlatStringMap<std::string> possessed_;
+  std::shared_ptr<const PossessiveWords> words_;  // never null once parsed
   int64_t scale_ = 1;  // the averaging denominator: stored weights are scale * mean weight
 };
 
@@ -214,10 +227,12 @@ struct PossessiveTrainOptions {
   std::string comment;
 };
 
-// Trains a model on `examples` (in the order given, shuffled per epoch from the seed) and
-// returns the model file's text, which parse() accepts. The same examples and options give
-// the same bytes on every run and platform.
+// Trains a model on `examples` (in the order given, shuffled per epoch from the seed), with
+// the word lists `words`, and returns the model file's text, which parse() accepts with the
+// same lists. The same examples, words and options give the same bytes on every run and
+// platform.
 std::string train_possessive_model(std::span<const PossessiveExample> examples,
+                                   const PossessiveWords& words,
                                    const PossessiveTrainOptions& options);
 
 }  // namespace evenhand::rewrite
