@@ -145,7 +145,8 @@ std::shared_ptr<const pack::CompiledPack> neutral_pack() {
        "hers | his | theirs @poss\nherself | himself | themself\nmother | father | parent\n"
        "aunt | uncle | -\n"},
       {"verbs.data", en->at("verbs.data")},
-      {"possessive.model", en->at("possessive.model")}};
+      {"possessive.model", en->at("possessive.model")},
+      {"word-classes.data", en->at("word-classes.data")}};
   std::vector<pack::Diagnostic> diags;
   auto p = pack::load_pack_files("tri", files, diags);
   REQUIRE(p.ok());
