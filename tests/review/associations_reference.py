@@ -10,7 +10,9 @@ exact conditional test by enumerating every placement of the target's co-occurre
 scipy.stats.multivariate_hypergeom (source: Debian python3-scipy). Then, on generated corpora
 (invented data, a statistical check): with no association, the p-values of 200 targets are
 spread evenly over (0, 1] (Kolmogorov-Smirnov against uniform does not reject at 1%, fixed
-seed); planted associations get small p-values.
+seed), and 100 targets with 0 to 9 co-occurrences are "too few" by default and, without the
+minimum, do not get p <= 0.05 more often than 5% (binomial test at 1%); planted associations
+get small p-values.
 
 Usage: associations_reference.py --bin PATH/evenhand. Exits 1 with the first difference.
 numpy and scipy are required (.ci/deps installs them); without them the check fails.
@@ -169,22 +171,21 @@ def check_generated(binary, tmp):
     sizes = {"a": (2500, 8), "b": (5000, 8), "s": (600, 5), "n": (300, 8)}
     slots = {k: r * w for k, (r, w) in sizes.items()}
     context = slots["a"] + slots["b"] + slots["s"]
-    null = target_names(205)
+    names = target_names(305)
+    null, planted, rare = names[:200], names[200:205], names[205:]
     placements = {}
-    for t in null[:200]:  # no association: spread in proportion to context sizes
-        m = int(rng.integers(20, 121))
+    for t in null + rare:  # no association: spread in proportion to context sizes
+        m = int(rng.integers(20, 121)) if t in null else int(rng.integers(0, 10))
         split = rng.multivariate_hypergeometric([slots["a"], slots["b"], slots["s"]], m)
         placements[t] = {"a": int(split[0]), "b": int(split[1]), "s": int(split[2]), "n": 2}
-    planted = null[200:]
     for t in planted:  # twice the female share it would have without association
         m = 60
-        share_a = 2 * slots["a"] / context
-        k_a = int(rng.binomial(m, share_a))
+        k_a = int(rng.binomial(m, 2 * slots["a"] / context))
         placements[t] = {"a": k_a, "b": m - k_a}
     corpus = fill(sizes, placements, rng)
-    _, _, res = run_audit(binary, tmp, corpus, null)
+    _, _, res = run_audit(binary, tmp, corpus, names)
     pvals = []
-    for t in null[:200]:
+    for t in null:
         pair = res[t][1]
         if pair["too_few"] or pair["p"] is None:
             fail("null target %s: no p-value" % t)
@@ -203,6 +204,33 @@ def check_generated(binary, tmp):
                                                   pair["p"]))
         if pair["p"] is None or pair["p"] > 1e-3 or pair["z"] <= 0:
             fail("planted association %s: p = %r, z = %r" % (t, pair["p"], pair["z"]))
+    check_rare(binary, tmp, corpus, names, rare, res)
+
+
+def check_rare(binary, tmp, corpus, names, rare, res):
+    """Targets with 0 to 9 co-occurrences: "too few" by default; with no minimum, a p-value
+    that is 1 without co-occurrences and not too small too often (a valid test of a discrete
+    law has P(p <= 0.05) <= 0.05)."""
+    for t in rare:
+        tr, pair = res[t]
+        n = tr["cooccurrences"]["female"] + tr["cooccurrences"]["male"]
+        if pair is None or pair["too_few"] != (n < 10) or (pair["p"] is None) != (n < 10):
+            fail("rare target %s with %d co-occurrences: %r" % (t, n, pair))
+    _, _, res0 = run_audit(binary, tmp, corpus, names, ["--min-cooccurrences", "0"])
+    small = 0
+    for t in rare:
+        tr, pair = res0[t]
+        if pair is None:
+            continue  # occurs nowhere (cannot happen: every target has two outside contexts)
+        n = tr["cooccurrences"]["female"] + tr["cooccurrences"]["male"]
+        if pair["p"] is None or not 0 < pair["p"] <= 1 or (n == 0 and pair["p"] != 1):
+            fail("rare target %s with %d co-occurrences: p = %r" % (t, n, pair["p"]))
+        small += pair["p"] <= 0.05
+    test = stats.binomtest(small, len(rare), 0.05, alternative="greater")
+    print("no association, 0 to 9 co-occurrences: %d of %d with p <= 0.05 (binomial p %.3g)"
+          % (small, len(rare), test.pvalue))
+    if test.pvalue < 0.01:
+        fail("rare targets: too many small p-values without association")
 
 
 def main():
