@@ -162,7 +162,7 @@ TEST_CASE("merge-manifests and pair-names refuse an output that is an input") {
 TEST_CASE("associations and report refuse an output that is an input") {
   TempDir d;
   make_inputs(d);
-  const std::string assoc = "associations --pack en-gender --permutations 9 ";
+  const std::string assoc = "associations --pack en-gender ";
   check_refused(
       d, {
              {"associations --in", assoc + "--in in.jsonl --out ./in.jsonl"},
