@@ -4,6 +4,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <map>
 #include <set>
 #include <tuple>
@@ -248,33 +249,42 @@ double log_choose(double n, double k) {
 }
 
 // A hypergeometric law: k of `draws` drawn from `total` items fall among `marked` of them.
-// Calls visit(k, log P(k)) for every k whose probability is at least e^-40 times the mode's
-// (the law is log-concave, so these form one run around the mode).
-template <class Visit>
-void each_likely(uint64_t total, uint64_t marked, uint64_t draws, Visit&& visit) {
-  uint64_t lo = draws > total - marked ? draws - (total - marked) : 0;
-  uint64_t hi = std::min(marked, draws);
-  auto logp = [&](uint64_t k) {
+struct Hypergeometric {
+  uint64_t total, marked, draws;
+  double log_p(uint64_t k) const {
     return log_choose(double(marked), double(k)) +
            log_choose(double(total - marked), double(draws - k)) -
            log_choose(double(total), double(draws));
-  };
-  uint64_t mode =
-      static_cast<uint64_t>((double(draws) + 1) * (double(marked) + 1) / (double(total) + 2));
-  mode = std::clamp(mode, lo, hi);
-  double top = logp(mode);
-  const double cut = top - 40;
-  for (uint64_t k = mode;; --k) {
-    double l = logp(k);
-    if (l < cut) break;
-    visit(k, l);
-    if (k == lo) break;
   }
-  for (uint64_t k = mode + 1; k <= hi; ++k) {
-    double l = logp(k);
-    if (l < cut) break;
-    visit(k, l);
+  uint64_t lo() const { return draws > total - marked ? draws - (total - marked) : 0; }
+  uint64_t hi() const { return std::min(marked, draws); }
+  uint64_t mode() const {
+    double m = (double(draws) + 1) * (double(marked) + 1) / (double(total) + 2);
+    return std::clamp(static_cast<uint64_t>(m), lo(), hi());
   }
+  // Calls visit(k, log P(k)) for every k with log P(k) >= cut (the law is log-concave, so
+  // these form one run around the mode).
+  template <class Visit>
+  void each_above(double cut, Visit&& visit) const {
+    uint64_t m = mode();
+    for (uint64_t k = m;; --k) {
+      double l = log_p(k);
+      if (l < cut) break;
+      visit(k, l);
+      if (k == lo()) break;
+    }
+    for (uint64_t k = m + 1; k <= hi(); ++k) {
+      double l = log_p(k);
+      if (l < cut) break;
+      visit(k, l);
+    }
+  }
+};
+
+// ln(e^x + e^y) without overflow.
+double log_add(double x, double y) {
+  if (x < y) std::swap(x, y);
+  return y == -HUGE_VAL ? x : x + std::log1p(std::exp(y - x));
 }
 
 }  // namespace
@@ -286,18 +296,23 @@ double exact_p(const PairTable& t, double alpha_w, double alpha_0) {
   };
   double observed = absz(t.y_only_a, t.y_only_b, t.y_shared);
   double limit = observed - 1e-9 * std::max(1.0, observed);  // ties count
-  uint64_t total = t.only_a + t.only_b + t.shared;
   uint64_t y = t.y_only_a + t.y_only_b + t.y_shared;
-  double mass = 0, extreme = 0;
   // k_s first (shared words among all context words), then k_a given k_s.
-  each_likely(total, t.shared, y, [&](uint64_t ks, double ls) {
-    each_likely(t.only_a + t.only_b, t.only_a, y - ks, [&](uint64_t ka, double la) {
-      double pr = std::exp(ls + la);
-      mass += pr;
-      if (absz(ka, y - ks - ka, ks) >= limit) extreme += pr;
+  Hypergeometric shared{t.only_a + t.only_b + t.shared, t.shared, y};
+  auto given = [&](uint64_t ks) { return Hypergeometric{t.only_a + t.only_b, t.only_a, y - ks}; };
+  uint64_t ks_mode = shared.mode();
+  double top = shared.log_p(ks_mode) + given(ks_mode).log_p(given(ks_mode).mode());
+  double seen = shared.log_p(t.y_shared) + given(t.y_shared).log_p(t.y_only_a);
+  double cut = std::min(top, seen) - 40;  // the observed outcome is always summed
+  double log_mass = -HUGE_VAL, log_extreme = -HUGE_VAL;
+  shared.each_above(cut, [&](uint64_t ks, double ls) {
+    given(ks).each_above(cut - ls, [&](uint64_t ka, double la) {
+      log_mass = log_add(log_mass, ls + la);
+      if (absz(ka, y - ks - ka, ks) >= limit) log_extreme = log_add(log_extreme, ls + la);
     });
   });
-  return std::min(1.0, extreme / mass);
+  double p = std::exp(log_extreme - log_mass);
+  return std::clamp(p, std::numeric_limits<double>::min(), 1.0);
 }
 
 CorpusAssociations compute_associations(const CooccurrenceCounts& c, const AssociationOptions& o) {

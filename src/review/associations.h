@@ -103,8 +103,9 @@ LogOdds log_odds_z(double y_a, double n_a, double y_b, double n_b, double alpha_
 // an outcome whose |z| (y_a = k_a + k_s, y_b = k_b + k_s) is at least the observed |z|
 // (two-sided; ties count). This is the exact permutation distribution of which a Monte Carlo
 // permutation test only estimates p (Fisher's exact test with the z ordering; Agresti,
-// "Categorical Data Analysis", 2002, 3.5; from memory). Outcomes less probable than e^-40
-// times the most probable are left out (p is then exact to about 1e-15).
+// "Categorical Data Analysis", 2002, 3.5; from memory). Sums run in log space; outcomes
+// less probable than e^-40 times both the likeliest and the observed one are left out, so p
+// is exact to about 1e-15 of itself and never 0 (below the least normal double it is that).
 struct PairTable {
   uint64_t only_a = 0, only_b = 0, shared = 0, y_only_a = 0, y_only_b = 0, y_shared = 0;
 };

@@ -124,7 +124,9 @@ def check_fixed_tables(binary, tmp):
     # both, and the target's count among each. Small enough to enumerate every outcome.
     tables = [(12, 12, 0, 5, 0, 0), (20, 8, 0, 3, 3, 0), (30, 15, 6, 7, 1, 2),
               (9, 27, 9, 2, 5, 3), (40, 40, 0, 0, 0, 0), (6, 50, 4, 0, 1, 0),
-              (25, 25, 10, 4, 4, 1), (18, 36, 0, 12, 6, 0)]
+              (25, 25, 10, 4, 4, 1), (18, 36, 0, 12, 6, 0),
+              # lopsided: p far below e^-40 times the likeliest outcome's probability
+              (600, 300, 0, 40, 2, 0), (60, 60, 30, 25, 0, 5)]
     rng = np.random.default_rng(20261205)
     for i, (A, B, C, yA, yB, yC) in enumerate(tables):
         sizes = {"a": (A, 1), "b": (B, 1), "s": (C, 1), "n": (2, 5)}

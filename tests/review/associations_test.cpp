@@ -278,6 +278,15 @@ TEST_CASE("exact test: hand-computed tables, p = 1 without skew, small with a st
   none.only_a = 50;
   none.only_b = 500;
   CHECK(review::exact_p(none, 0.01, 100) == 1.0);
+  // Lopsided counts of a large corpus: far in the tail, yet not 0 (summed in log space).
+  review::PairTable far;
+  far.only_a = 200000;
+  far.only_b = 170000;
+  far.y_only_a = 500;
+  far.y_only_b = 100;
+  double p_far = review::exact_p(far, 1, 100);
+  CHECK(p_far > 0);
+  CHECK(p_far < 1e-40);
   // Shared words only: every outcome has y_a = y_b.
   review::PairTable shared;
   shared.shared = 8;
