@@ -38,7 +38,7 @@ struct AssociationOptions {
   size_t window = 10;  // words on either side of a group word that are its context
   double prior = 100;  // alpha_0, the prior's total count (see README)
   // Below this many co-occurrences with the two groups (y_a + y_b) a pair gets no p-value
-  // but "too few": even the most lopsided split of 9 cannot reach p < 0.002 (README).
+  // but "too few": about 5 expected per group, the common rule for a 2x2 table (README).
   uint64_t min_cooccurrences = 10;
 };
 
