@@ -1,6 +1,6 @@
 // `evenhand associations`: measures how strongly each target word co-occurs with each
 // group's words in a corpus and, with --after, in its augmented output; writes JSON
-// (schema evenhand.associations/1) that `report --associations` shows.
+// (schema evenhand.associations/2) that `report --associations` shows.
 #include <cmath>
 
 #include "cli/cli.h"
@@ -32,8 +32,7 @@ int associations_command(const std::vector<std::string>& args) {
     ("targets", po::value(&targets_path)->value_name("PATH"), "target word list (default: the pack's targets.data)")
     ("window", whole_number("--window", &ao.window, 1, 1000), "context: words on either side of a group word, 1 to 1000 (default 10)")
     ("prior", real_number("--prior", &ao.prior, {0, HUGE_VAL, true}), "alpha_0, total weight of the Dirichlet prior, above 0 (default 100)")
-    ("permutations", whole_number("--permutations", &ao.permutations, 0, 1000000), "permutation test draws, 0 to 1000000 (default 999; 0: none)")
-    ("seed", whole_number("--seed", &ao.seed, 0, UINT64_MAX), "seed of the permutation test, 0 to 2^64-1 (default 0)")
+    ("min-cooccurrences", whole_number("--min-cooccurrences", &ao.min_cooccurrences, 0, UINT64_MAX), "fewer co-occurrences of a target with two groups than this: 'too few' instead of a p-value, 0 to 2^64-1 (default 10)")
     ("out", po::value(&out)->value_name("PATH"), "write the JSON here ('-' is stdout)");
   // clang-format on
   add_protect_option(opts, protect);

@@ -4,8 +4,7 @@
 
 #include <algorithm>
 #include <cmath>
-#include <map>
-#include <random>
+#include <limits>
 #include <set>
 #include <tuple>
 #include <unordered_map>
@@ -153,8 +152,7 @@ struct CooccurrenceCounter::Impl {
     }
   }
 
-  void add_field(std::string_view text, std::span<const rewrite::RecordResult::Mention> mentions,
-                 CooccurrenceCounts::Record& rec, std::map<uint32_t, std::vector<uint32_t>>& ys) {
+  void add_field(std::string_view text, std::span<const rewrite::RecordResult::Mention> mentions) {
     read_words(text, mentions);
     measure_distances();
     size_t G = counts.groups;
@@ -167,14 +165,20 @@ struct CooccurrenceCounter::Impl {
         std::string_view stem = strip_clitic(w.folded);
         if (!stem.empty()) t = target_of.find(stem);
       }
-      if (t != target_of.end()) ++counts.occurrences[t->second];
-      for (size_t g = 0; g < G; ++g) {
-        if (dist[p * G + g] > static_cast<int64_t>(window)) continue;
-        ++rec.context[g];
-        if (t != target_of.end()) {
-          auto& y = ys[t->second];
-          if (y.empty()) y.assign(G, 0);
-          ++y[g];
+      bool target = t != target_of.end();
+      if (target) ++counts.occurrences[t->second];
+      auto near = [&](size_t g) { return dist[p * G + g] <= static_cast<int64_t>(window); };
+      for (size_t a = 0, pair = 0; a < G; ++a) {
+        if (!near(a)) {
+          pair += G - a - 1;
+          continue;
+        }
+        ++counts.context_total[a];
+        if (target) ++counts.target_total[t->second][a];
+        for (size_t b = a + 1; b < G; ++b, ++pair) {
+          if (!near(b)) continue;
+          ++counts.shared_context[pair];
+          if (target) ++counts.shared_total[t->second][pair];
         }
       }
     }
@@ -195,16 +199,15 @@ CooccurrenceCounter::CooccurrenceCounter(std::shared_ptr<const rewrite::Engine> 
   c.occurrences.assign(targets.labels.size(), 0);
   c.context_total.assign(c.groups, 0);
   c.target_total.assign(targets.labels.size(), std::vector<uint64_t>(c.groups, 0));
+  size_t pairs = c.groups * (c.groups - 1) / 2;
+  c.shared_context.assign(pairs, 0);
+  c.shared_total.assign(targets.labels.size(), std::vector<uint64_t>(pairs, 0));
 }
 
 CooccurrenceCounter::~CooccurrenceCounter() = default;
 
 void CooccurrenceCounter::add_record(std::span<const std::string_view> fields) {
-  auto& c = impl_->counts;
-  ++c.records;
-  CooccurrenceCounts::Record rec;
-  rec.context.assign(c.groups, 0);
-  std::map<uint32_t, std::vector<uint32_t>> ys;
+  ++impl_->counts.records;
   impl_->worker->rewrite(fields, impl_->result);
   auto& mentions = impl_->result.mentions;
   std::sort(mentions.begin(), mentions.end(), [](const auto& x, const auto& y) {
@@ -214,19 +217,8 @@ void CooccurrenceCounter::add_record(std::span<const std::string_view> fields) {
   for (uint32_t f = 0; f < fields.size(); ++f) {
     size_t first = m;
     while (m < mentions.size() && mentions[m].field == f) ++m;
-    impl_->add_field(fields[f], std::span(mentions).subspan(first, m - first), rec, ys);
+    impl_->add_field(fields[f], std::span(mentions).subspan(first, m - first));
   }
-  bool any = false;
-  for (size_t g = 0; g < c.groups; ++g) {
-    c.context_total[g] += rec.context[g];
-    any = any || rec.context[g] > 0;
-  }
-  if (!any) return;
-  for (auto& [t, y] : ys) {
-    for (size_t g = 0; g < c.groups; ++g) c.target_total[t][g] += y[g];
-    rec.targets.emplace_back(t, std::move(y));
-  }
-  c.with_context.push_back(std::move(rec));
 }
 
 const CooccurrenceCounts& CooccurrenceCounter::counts() const {
@@ -243,6 +235,83 @@ LogOdds log_odds_z(double y_a, double n_a, double y_b, double n_b, double alpha_
   r.variance = 1 / (y_a + alpha_w) + 1 / (y_b + alpha_w);
   r.z = r.delta / std::sqrt(r.variance);
   return r;
+}
+
+size_t pair_index(size_t groups, size_t a, size_t b) {
+  return a * groups - a * (a + 1) / 2 + (b - a - 1);
+}
+
+namespace {
+
+double log_choose(double n, double k) {
+  return std::lgamma(n + 1) - std::lgamma(k + 1) - std::lgamma(n - k + 1);
+}
+
+// A hypergeometric law: k of `draws` drawn from `total` items fall among `marked` of them.
+struct Hypergeometric {
+  uint64_t total, marked, draws;
+  double log_p(uint64_t k) const {
+    return log_choose(double(marked), double(k)) +
+           log_choose(double(total - marked), double(draws - k)) -
+           log_choose(double(total), double(draws));
+  }
+  uint64_t lo() const { return draws > total - marked ? draws - (total - marked) : 0; }
+  uint64_t hi() const { return std::min(marked, draws); }
+  uint64_t mode() const {
+    double m = (double(draws) + 1) * (double(marked) + 1) / (double(total) + 2);
+    return std::clamp(static_cast<uint64_t>(m), lo(), hi());
+  }
+  // Calls visit(k, log P(k)) for every k with log P(k) >= cut (the law is log-concave, so
+  // these form one run around the mode).
+  template <class Visit>
+  void each_above(double cut, Visit&& visit) const {
+    uint64_t m = mode();
+    for (uint64_t k = m;; --k) {
+      double l = log_p(k);
+      if (l < cut) break;
+      visit(k, l);
+      if (k == lo()) break;
+    }
+    for (uint64_t k = m + 1; k <= hi(); ++k) {
+      double l = log_p(k);
+      if (l < cut) break;
+      visit(k, l);
+    }
+  }
+};
+
+// ln(e^x + e^y) without overflow.
+double log_add(double x, double y) {
+  if (x < y) std::swap(x, y);
+  return y == -HUGE_VAL ? x : x + std::log1p(std::exp(y - x));
+}
+
+}  // namespace
+
+double exact_p(const PairTable& t, double alpha_w, double alpha_0) {
+  double n_a = double(t.only_a + t.shared), n_b = double(t.only_b + t.shared);
+  auto absz = [&](uint64_t ka, uint64_t kb, uint64_t ks) {
+    return std::fabs(log_odds_z(double(ka + ks), n_a, double(kb + ks), n_b, alpha_w, alpha_0).z);
+  };
+  double observed = absz(t.y_only_a, t.y_only_b, t.y_shared);
+  double limit = observed - 1e-9 * std::max(1.0, observed);  // ties count
+  uint64_t y = t.y_only_a + t.y_only_b + t.y_shared;
+  // k_s first (shared words among all context words), then k_a given k_s.
+  Hypergeometric shared{t.only_a + t.only_b + t.shared, t.shared, y};
+  auto given = [&](uint64_t ks) { return Hypergeometric{t.only_a + t.only_b, t.only_a, y - ks}; };
+  uint64_t ks_mode = shared.mode();
+  double top = shared.log_p(ks_mode) + given(ks_mode).log_p(given(ks_mode).mode());
+  double seen = shared.log_p(t.y_shared) + given(t.y_shared).log_p(t.y_only_a);
+  double cut = std::min(top, seen) - 40;  // the observed outcome is always summed
+  double log_mass = -HUGE_VAL, log_extreme = -HUGE_VAL;
+  shared.each_above(cut, [&](uint64_t ks, double ls) {
+    given(ks).each_above(cut - ls, [&](uint64_t ka, double la) {
+      log_mass = log_add(log_mass, ls + la);
+      if (absz(ka, y - ks - ka, ks) >= limit) log_extreme = log_add(log_extreme, ls + la);
+    });
+  });
+  double p = std::exp(log_extreme - log_mass);
+  return std::clamp(p, std::numeric_limits<double>::min(), 1.0);
 }
 
 CorpusAssociations compute_associations(const CooccurrenceCounts& c, const AssociationOptions& o) {
@@ -263,63 +332,26 @@ CorpusAssociations compute_associations(const CooccurrenceCounts& c, const Assoc
         PairResult pr;
         pr.a = a;
         pr.b = b;
-        pr.stat = log_odds_z(double(tr.y[a]), double(c.context_total[a]), double(tr.y[b]),
-                             double(c.context_total[b]), tr.alpha, o.prior);
+        uint64_t n_a = c.context_total[a], n_b = c.context_total[b];
+        pr.stat = log_odds_z(double(tr.y[a]), double(n_a), double(tr.y[b]), double(n_b), tr.alpha,
+                             o.prior);
+        size_t k = pair_index(c.groups, a, b);
+        pr.shared_context = c.shared_context[k];
+        pr.shared_cooccurrences = c.shared_total[t][k];
+        pr.too_few = tr.y[a] + tr.y[b] < o.min_cooccurrences;
+        if (!pr.too_few) {
+          PairTable tab;
+          tab.shared = pr.shared_context;
+          tab.only_a = n_a - tab.shared;
+          tab.only_b = n_b - tab.shared;
+          tab.y_shared = pr.shared_cooccurrences;
+          tab.y_only_a = tr.y[a] - tab.y_shared;
+          tab.y_only_b = tr.y[b] - tab.y_shared;
+          pr.p = exact_p(tab, tr.alpha, o.prior);
+        }
         tr.pairs.push_back(pr);
       }
   }
-  if (o.permutations == 0) return out;
-  // Per target, the records where it has context counts (sparse).
-  std::vector<std::vector<std::pair<size_t, size_t>>> where(T);  // (record, entry)
-  for (size_t r = 0; r < c.with_context.size(); ++r)
-    for (size_t k = 0; k < c.with_context[r].targets.size(); ++k)
-      where[c.with_context[r].targets[k].first].emplace_back(r, k);
-  size_t R = c.with_context.size();
-  size_t pair_index = 0;
-  for (uint16_t a = 0; a < c.groups; ++a)
-    for (uint16_t b = a + 1; b < c.groups; ++b, ++pair_index) {
-      std::mt19937_64 rng(o.seed);
-      std::vector<uint64_t> bits((R + 63) / 64);
-      std::vector<uint64_t> extreme(T, 0);
-      for (uint32_t draw = 0; draw < o.permutations; ++draw) {
-        for (auto& w : bits) w = rng();
-        auto flip = [&](size_t r) { return (bits[r / 64] >> (r % 64)) & 1; };
-        double na = 0, nb = 0;
-        for (size_t r = 0; r < R; ++r) {
-          const auto& ctx = c.with_context[r].context;
-          if (flip(r)) {
-            na += ctx[b];
-            nb += ctx[a];
-          } else {
-            na += ctx[a];
-            nb += ctx[b];
-          }
-        }
-        for (size_t t = 0; t < T; ++t) {
-          auto& tr = out.targets[t];
-          if (tr.pairs.empty()) continue;
-          double ya = 0, yb = 0;
-          for (auto [r, k] : where[t]) {
-            const auto& y = c.with_context[r].targets[k].second;
-            if (flip(r)) {
-              ya += y[b];
-              yb += y[a];
-            } else {
-              ya += y[a];
-              yb += y[b];
-            }
-          }
-          double z = log_odds_z(ya, na, yb, nb, tr.alpha, o.prior).z;
-          if (std::fabs(z) >= std::fabs(tr.pairs[pair_index].stat.z) * (1 - 1e-12)) ++extreme[t];
-        }
-      }
-      for (size_t t = 0; t < T; ++t) {
-        auto& tr = out.targets[t];
-        if (tr.pairs.empty()) continue;
-        tr.pairs[pair_index].p =
-            (1.0 + static_cast<double>(extreme[t])) / (1.0 + static_cast<double>(o.permutations));
-      }
-    }
   return out;
 }
 
@@ -343,8 +375,8 @@ std::string render_associations(const AssociationReport& r) {
   w.key("statistic").value("log-odds ratio with informative Dirichlet prior, z-score");
   w.key("window").value(static_cast<uint64_t>(r.options.window));
   w.key("prior").value(r.options.prior);
-  w.key("permutations").value(static_cast<uint64_t>(r.options.permutations));
-  w.key("seed").value(r.options.seed);
+  w.key("test").value("exact conditional test of z (multivariate hypergeometric), two-sided");
+  w.key("min_cooccurrences").value(r.options.min_cooccurrences);
   w.key("protect").begin_array();
   for (const auto& p : r.protect) w.value(p);
   w.end_array();
@@ -388,6 +420,9 @@ std::string render_associations(const AssociationReport& r) {
         w.key("a").value(r.groups[p.a]).key("b").value(r.groups[p.b]);
         w.key("log_odds").value(p.stat.delta).key("variance").value(p.stat.variance);
         w.key("z").value(p.stat.z);
+        w.key("shared_context").value(p.shared_context);
+        w.key("shared_cooccurrences").value(p.shared_cooccurrences);
+        w.key("too_few").value(p.too_few);
         w.key("p");
         if (p.p)
           w.value(*p.p);
@@ -448,8 +483,7 @@ Result<AssociationReport> read_associations(const std::string& path) {
   element m = doc["method"];
   r.options.window = uget(m, "window");
   r.options.prior = dget(m, "prior");
-  r.options.permutations = static_cast<uint32_t>(uget(m, "permutations"));
-  r.options.seed = uget(m, "seed");
+  r.options.min_cooccurrences = uget(m, "min_cooccurrences");
   if (!m["protect"].get_array().get(arr))  // absent in files written before it was added
     for (element x : arr) {
       std::string_view v;
@@ -500,6 +534,10 @@ Result<AssociationReport> read_associations(const std::string& path) {
           pr.stat.delta = dget(p, "log_odds");
           pr.stat.variance = dget(p, "variance");
           pr.stat.z = dget(p, "z");
+          pr.shared_context = uget(p, "shared_context");
+          pr.shared_cooccurrences = uget(p, "shared_cooccurrences");
+          bool few = false;
+          pr.too_few = !p["too_few"].get_bool().get(few) && few;
           double pv = 0;
           if (!p["p"].get_double().get(pv)) pr.p = pv;
           tr.pairs.push_back(pr);

@@ -234,6 +234,7 @@ const PairResult* pair_of(const TargetResult& t, uint16_t a, uint16_t b) {
 }
 
 std::string pval(const PairResult* p) {
+  if (p && p->too_few) return "too few";
   if (!p || !p->p) return "&ndash;";
   char buf[32];
   std::snprintf(buf, sizeof buf, *p->p < 0.001 ? "%.1e" : "%.3f", *p->p);
@@ -553,9 +554,10 @@ std::string render_report(const ReportInput& in) {
          num(a.options.prior, 0) +
          "), as a z-score (Monroe, Colaresi &amp; Quinn 2008). "
          "Light bars: before; solid bars: after. Dashed lines: |z| = 1.96. p: two-sided "
-         "permutation test over records, " +
-         std::to_string(a.options.permutations) + " draws, seed " + std::to_string(a.options.seed) +
-         ". Co-occurrence in the text says nothing about a trained model.</p>";
+         "exact conditional test of z; below " +
+         std::to_string(a.options.min_cooccurrences) +
+         " co-occurrences with the two groups, too few for one. Co-occurrence in the text says "
+         "nothing about a trained model.</p>";
     h += association_chart(a, top, 0, 1);
     h += "<table><tr><th>target</th><th class=\"n\">occurs</th><th class=\"n\">with " +
          esc(a.groups[0]) + "</th><th class=\"n\">with " + esc(a.groups[1]) +

@@ -86,7 +86,8 @@ TEST_CASE("a bad numeric option is a usage error naming the option and its range
       {review + " --seed -1", "-", "--seed must be a whole number from 0"},
       {report + " --sample -1", "r.html", "--sample must be a whole number from 0 to 1000000"},
       {assoc + " --window 0", "a.json", "--window must be a whole number from 1 to 1000"},
-      {assoc + " --permutations -1", "a.json", "--permutations must be a whole number from 0"},
+      {assoc + " --min-cooccurrences -1", "a.json",
+       "--min-cooccurrences must be a whole number from 0"},
       {assoc + " --prior nan", "a.json", "--prior must be a number above 0, not 'nan'"},
   };
   for (const auto& c : cases) {

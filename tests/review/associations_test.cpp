@@ -1,8 +1,8 @@
 // The association audit (review/associations.h): the statistic on a hand-computed example,
 // the counting of contexts, group words that are exactly the rewrite engine's mentions
-// (protected spans, --protect, person evidence, guards, multiword forms), the permutation
-// test, the shipped target list, and the property that two-sided augmentation (run through
-// the CLI) leaves no skew between the swapped pair.
+// (protected spans, --protect, person evidence, guards, multiword forms), the exact
+// test and its "too few", the shipped target list, and the property that two-sided augmentation
+// (run through the CLI) leaves no skew between the swapped pair.
 #include <catch2/catch.hpp>
 
 #include <algorithm>
@@ -135,11 +135,11 @@ TEST_CASE("contexts are counted in a window of words around each group's words")
 
   review::AssociationOptions o;
   o.prior = 7;
-  o.permutations = 0;
   auto a = review::compute_associations(c, o);
   REQUIRE(a.targets[0].pairs.size() == 3);  // female-male, female-neutral, male-neutral
   CHECK(a.targets[0].alpha == Approx(1.0));
   CHECK(a.targets[0].pairs[0].stat.z == Approx(0.318454).epsilon(1e-5));
+  CHECK(a.targets[0].pairs[0].too_few);  // 2 co-occurrences, below the default 10
   CHECK_FALSE(a.targets[0].pairs[0].p.has_value());
   CHECK(a.targets[2].pairs.empty());  // surgeon does not occur: no statistic
 }
@@ -262,7 +262,37 @@ TEST_CASE("group words are the engine's mentions: a multiword mention is one gro
   CHECK(a.counts.target_total[0][n] == 1);
 }
 
-TEST_CASE("permutation test: seeded, p = 1 without skew, small with a strong one") {
+TEST_CASE("exact test: hand-computed tables, p = 1 without skew, small with a strong one") {
+  // Two words in each context, the target twice, both in a's: the hypergeometric law of
+  // k_a is 1/6, 4/6, 1/6 (by hand); with n_a = n_b, k_a = 0 is as extreme as 2, so p = 1/3.
+  review::PairTable tab;
+  tab.only_a = tab.only_b = 2;
+  tab.y_only_a = 2;
+  CHECK(review::exact_p(tab, 0.5, 10) == Approx(1.0 / 3).epsilon(1e-12));
+  tab.y_only_a = 1;
+  tab.y_only_b = 1;
+  CHECK(review::exact_p(tab, 0.5, 10) == Approx(1.0).epsilon(1e-12));
+  // No co-occurrence: one possible outcome, p = 1 whatever the context sizes (the old test
+  // gave 0.001 here, as n_a != n_b made z != 0 and permuted labels shrank it).
+  review::PairTable none;
+  none.only_a = 50;
+  none.only_b = 500;
+  CHECK(review::exact_p(none, 0.01, 100) == 1.0);
+  // Lopsided counts of a large corpus: far in the tail, yet not 0 (summed in log space).
+  review::PairTable far;
+  far.only_a = 200000;
+  far.only_b = 170000;
+  far.y_only_a = 500;
+  far.y_only_b = 100;
+  double p_far = review::exact_p(far, 1, 100);
+  CHECK(p_far > 0);
+  CHECK(p_far < 1e-40);
+  // Shared words only: every outcome has y_a = y_b.
+  review::PairTable shared;
+  shared.shared = 8;
+  shared.y_shared = 3;
+  CHECK(review::exact_p(shared, 0.5, 10) == 1.0);
+
   auto t = targets("nurse\nmechanic\n");
   auto engine = en_engine();
   review::CooccurrenceCounter skewed(engine, t, 5), even(engine, t, 5);
@@ -277,22 +307,21 @@ TEST_CASE("permutation test: seeded, p = 1 without skew, small with a strong one
     even.add_record(std::span(&d, 1));
   }
   review::AssociationOptions o;
-  o.permutations = 199;
-  o.seed = 7;
   auto s1 = review::compute_associations(skewed.counts(), o);
-  auto s2 = review::compute_associations(skewed.counts(), o);
   const auto& p = s1.targets[0].pairs[0];
   CHECK(p.stat.z > 2);
   REQUIRE(p.p.has_value());
-  // 60 records with labels exchanged at random: no draw reaches the observed |z|, so the
-  // p-value is its floor 1 / (1 + 199) (permutation p-values, common practice).
-  CHECK(*p.p == Approx(1.0 / 200));
-  CHECK(*s2.targets[0].pairs[0].p == *p.p);
+  // 30 nurses all with she, none with he, contexts of equal size: p is near 2 * 2^-30.
+  CHECK(*p.p < 1e-6);
+  CHECK(*p.p > 0);
   CHECK(s1.targets[1].pairs[0].stat.z < -2);
-
   auto e = review::compute_associations(even.counts(), o);
   CHECK(e.targets[0].pairs[0].stat.z == 0.0);
   CHECK(*e.targets[0].pairs[0].p == 1.0);
+  o.min_cooccurrences = 61;  // 60 nurses with either group: too few
+  auto few = review::compute_associations(skewed.counts(), o);
+  CHECK(few.targets[0].pairs[0].too_few);
+  CHECK_FALSE(few.targets[0].pairs[0].p.has_value());
 }
 
 TEST_CASE("target lists: variants, comments, duplicates refused with the line") {
@@ -347,7 +376,7 @@ TEST_CASE("JSON round trip of an association report") {
   r.pack_name = pk->name();
   r.groups = pk->groups();
   r.targets = t;
-  r.options.permutations = 9;
+  r.options.min_cooccurrences = 1;
   r.protect = {"Duke Street", "[0-9]+"};
   r.corpora.push_back(review::compute_associations(counter.counts(), r.options));
   r.corpora.back().label = "before";
@@ -390,7 +419,7 @@ TEST_CASE("two-sided augmentation through the CLI drives every target's skew to 
   REQUIRE(shell(bin + " run --pack en-gender --in " + d.file("in.jsonl") + " --out " +
                 d.file("aug.jsonl") + " --manifest " + d.file("m.json") + " --quiet") == 0);
   REQUIRE(shell(bin + " associations --pack en-gender --in " + d.file("in.jsonl") + " --after " +
-                d.file("aug.jsonl") + " --permutations 99 --out " + d.file("assoc.json")) == 0);
+                d.file("aug.jsonl") + " --out " + d.file("assoc.json")) == 0);
   auto r = review::read_associations(d.file("assoc.json"));
   REQUIRE(r.ok());
   REQUIRE(r->corpora.size() == 2);
@@ -407,7 +436,10 @@ TEST_CASE("two-sided augmentation through the CLI drives every target's skew to 
     REQUIRE(after.pairs[0].b == 1);
     CHECK(after.y[0] == after.y[1]);
     CHECK(after.pairs[0].stat.z == 0.0);
-    CHECK(*after.pairs[0].p == 1.0);
+    if (after.y[0] + after.y[1] >= 10)
+      CHECK(*after.pairs[0].p == 1.0);
+    else
+      CHECK(after.pairs[0].too_few);
   }
   CHECK(measured == 9);       // eight occupations and "driver"
   CHECK(skewed_before == 8);  // every occupation was skewed before
@@ -420,7 +452,7 @@ TEST_CASE("associations --protect: the run's patterns keep mentions out, a bad o
   write_file(d.file("in.jsonl"), "{\"text\": \"She walked to Duke Street with the nurse.\"}\n");
   write_file(d.file("targets.txt"), "nurse\n");
   std::string common = "associations --pack en-gender --in " + d.file("in.jsonl") + " --targets " +
-                       d.file("targets.txt") + " --permutations 0";
+                       d.file("targets.txt");
   auto ran = evenhand::testing::run_evenhand(d, common + " --out " + d.file("plain.json"));
   REQUIRE(ran.code == 0);
   ran = evenhand::testing::run_evenhand(
