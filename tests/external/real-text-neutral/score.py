@@ -1,13 +1,17 @@
 #!/usr/bin/env python3
 """Scores `evenhand run --pack en-gender --toward neutral` on the hand-labelled real-text set
 (GUIDE.md), per half: records fully right (output equals `expected`, or the original text for
-a `flag`) and edit precision (applied edits that agree with the expected text at their place).
+a `flag`) and edit precision: applied edits that, applied alone to the original, bring it
+closer to the expected text (fewer differing words). The names set's test (same span, same
+replacement) does not fit here: one edit may take several words ("he or she" -> "they") while
+the word-by-word difference joins the pair with the verb after it.
 Shares the loading, the split rule and the edit comparison with ../real-text/score.py.
 
 usage: score.py [--bin build/evenhand] [--check] [--dev]
 With --check, exits 1 when a half is below its floor (FLOORS). With --dev (for tuning), prints
 the development half only and its records not fully right.
 """
+import difflib
 import subprocess
 import sys
 import tempfile
@@ -16,12 +20,17 @@ from pathlib import Path
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE.parent / "real-text"))
 import extract as names_extract  # noqa: E402  (half: the split rule)
-import score as names_score  # noqa: E402  (load_jsonl, applied_edits, expected_changes)
+import score as names_score  # noqa: E402  (load_jsonl, applied_edits, TOKEN)
 
 ROOT = HERE.parents[2]
-# Floors for --check (README.md gives the figures they follow).
-FLOORS = {"dev": {"records": 0.0, "edit_precision": 0.0},
-          "held": {"records": 0.0, "edit_precision": 0.0}}
+# Floors for --check, about three points below the figures after issue 13's neutral rules
+# (README.md: dev 96.8% records / 94.4% edits, held-out 86.0% / 90.0%), so that a change that
+# makes neutral rewriting of real text worse fails; with 62 and 43 labelled records one record
+# is 1.6 and 2.3 points, so the floors allow two (dev) and one (held-out) more wrong records,
+# not more. Raise them as the engine improves. The issue's goal (held-out records >= 90%) is
+# not reached yet, and the floor is not the goal.
+FLOORS = {"dev": {"records": 0.93, "edit_precision": 0.91},
+          "held": {"records": 0.83, "edit_precision": 0.87}}
 
 
 def run_engine(binary, work):
@@ -31,6 +40,20 @@ def run_engine(binary, work):
            "--out", str(out), "--edits", str(log), "--threads", "1", "--quiet"]
     subprocess.run(cmd, check=True)
     return names_score.load_jsonl(out), names_score.load_jsonl(log)
+
+
+def distance(a, b):
+    """Words (and spaces, punctuation) that differ between texts a and b."""
+    ta, tb = names_score.TOKEN.findall(a), names_score.TOKEN.findall(b)
+    ops = difflib.SequenceMatcher(None, ta, tb, autojunk=False).get_opcodes()
+    return sum(max(i2 - i1, j2 - j1) for op, i1, i2, j1, j2 in ops if op != "equal")
+
+
+def helps(orig, want, at, length, to):
+    """True when the edit (byte offset, byte length, replacement) alone brings orig nearer."""
+    b = orig.encode("utf-8")
+    edited = (b[:at] + to.encode("utf-8") + b[at + length:]).decode("utf-8")
+    return distance(edited, want) < distance(orig, want)
 
 
 def score_half(half, records, outputs, edits, expected, errors):
@@ -46,10 +69,9 @@ def score_half(half, records, outputs, edits, expected, errors):
         right += ok
         if errors is not None and not ok:
             errors.append(f"record {rid}:\n   got  {outputs[rid]!r}\n   want {want!r}")
-        changes = names_score.expected_changes(orig, want)
         for at, length, to in edits.get(rid, []):
             applied += 1
-            good += changes.get((at, at + length)) == to
+            good += helps(orig, want, at, length, to)
     ratio = lambda n, d: n / d if d else 1.0
     return {"records": ratio(right, total), "edit_precision": ratio(good, applied),
             "counts": f"records {right}/{total}, edits {good}/{applied}"}
