@@ -16,6 +16,7 @@
 #include <algorithm>
 #include <array>
 #include <cstring>
+#include <optional>
 #include <tuple>
 #include <unordered_map>
 
@@ -189,6 +190,36 @@ class LexiconWorker final : public Worker {
   // Pushes the edit of match m at item k (with its agreement); returns the last item used.
   size_t emit(uint32_t field, std::string_view text, size_t k, const Match& m,
               std::string_view original, std::string_view replacement, RecordResult& out);
+  // A coordinated alternative of two forms that go to one form at their targets ("he or she",
+  // "his/her", "she (or he)", "him or herself", "s/he", "(s)he"): items first..last, the form,
+  // and the other word's item and group. Found around match m at item k, whose candidates are
+  // in cands_ and whose chosen form is `form`.
+  struct Pair {
+    size_t first = 0, last = 0, other = 0;
+    uint16_t other_group = 0;
+    std::string_view form;
+  };
+  std::optional<Pair> coordinated_pair(size_t k, const Match& m, std::string_view form) const;
+  // The single-word, non-name entry of `folded`, of a group other than `not_group`, whose form
+  // at its target is one of `forms`; or null.
+  const pack::LexEntry* shared_form(std::string_view folded, uint16_t not_group,
+                                    std::span<const std::string_view> forms) const;
+  // The form an entry becomes at its group's target ("" when the set has none).
+  std::string_view form_at_target(const pack::LexEntry& en) const;
+  // After the verb at item j agreed with a rewritten subject, the verbs coordinated with it
+  // ("they walk in and sits down") agree too; their edits go to pending_.
+  // With `subordinate` (the subject opens a clause: "if they ..."), a conjunction after a
+  // comma may go back to the main clause and is not followed.
+  void coordinated_verbs(uint32_t field, std::string_view text, size_t j, bool subordinate);
+  // The first item from j on that is not an adverb standing before a verb ("often", "no
+  // longer").
+  size_t skip_adverbs(size_t j) const;
+  // A line break between items first..last, which one edit replaces, moves to the space after
+  // them ("his or\n her position" -> "their\n position"), as an edit in pending_.
+  void keep_line_break(uint32_t field, std::string_view text, size_t first, size_t last);
+  // Moves pending_ into out.edits (those that overlap no edit of the field) and puts the
+  // field's edits, from index first_edit, back in text order.
+  void merge_pending(size_t first_edit, RecordResult& out);
   void spanish_field(uint32_t field, std::string_view text, RecordResult& out, bool guarded);
   void field_matches(uint32_t field, std::string_view text, RecordResult& out, bool guarded);
 
@@ -219,6 +250,7 @@ class LexiconWorker final : public Worker {
   std::vector<std::string_view> words_;       // folded items for the possessive model
   std::vector<const pack::LexEntry*> cands_;  // entries matching at one position
   bool site_ready_ = false;                   // site_ holds the tokens of the field being judged
+  std::vector<Edit> pending_;          // agreement edits of coordinated verbs, merged per field
   std::vector<FieldToken> np_tokens_;  // items for noun-phrase agreement (packs that have it)
   std::vector<NameCall> calls_;        // the record's judged names (person evidence)
   std::string unswappable_;            // the first person the pack cannot swap, as written
@@ -594,6 +626,13 @@ void LexiconWorker::note_unswappable(std::string_view text, size_t k) {
 
 void LexiconWorker::flag_unswappable(RecordResult& out) const {
   if (unswappable_.empty()) return;
+  // Toward a group that names have no form in (neutral), no name changes: a person whose sex
+  // the pack cannot tell stays as written like every other, and their pronouns go to the
+  // group's forms like everyone's ("Terry ... he" -> "Terry ... they").
+  const auto& names = e_.pack_->names();
+  if (e_.options_.toward && !names.empty() &&
+      (names[0].names.size() <= *e_.options_.toward || names[0].names[*e_.options_.toward].empty()))
+    return;
   for (const Edit& e : out.edits) {
     // Another person's name changing is no contradiction; a pronoun or noun may refer to
     // the person that stays.
@@ -771,6 +810,7 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
                                   bool guarded) {
   if (e_.np_) return spanish_field(field, text, out, guarded);
   const pack::CompiledPack& pk = *e_.pack_;
+  const size_t first_edit = out.edits.size();
   for (size_t k = 0; k < cur_->items.size(); ++k) {
     const auto* entries = entries_at(k);
     if (entries == nullptr) continue;
@@ -805,14 +845,129 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
     for (const auto* c : cands_) differ = differ || form_of(c) != form_of(m.chosen);
     if (differ && !guarded && t != g) choose_form(k, m, out);
     std::string_view replacement = form_of(m.chosen);
-    if (e_.options_.themselves && replacement == "themself") replacement = "themselves";
-    if (guarded || t == g || replacement.empty()) {
+    if (auto pair =
+            guarded || replacement.empty() ? std::nullopt : coordinated_pair(k, m, replacement)) {
+      const Item &a = cur_->items[pair->first], &b = cur_->items[pair->last];
+      if (is_protected(a.begin, b.end)) {
+        ++out.protected_spans;
+        k = pair->last;
+        continue;
+      }
+      const Item& o = cur_->items[pair->other];
+      out.count_mention(pair->other_group, field, o.begin, o.end);
+      m.len = pair->last - pair->first + 1;
+      m.note = "one person of either sex: a coordinated pair";
+      original = text.substr(a.begin, b.end - a.begin);
+      replacement = pair->form;
+      keep_line_break(field, text, pair->first, pair->last);
+      k = pair->first;
+    } else if (guarded || t == g || replacement.empty()) {
       ++out.after[g];
       k = next;
       continue;
     }
+    if (e_.options_.themselves && replacement == "themself") replacement = "themselves";
     k = emit(field, text, k, m, original, replacement, out);
   }
+  merge_pending(first_edit, out);
+}
+
+void LexiconWorker::keep_line_break(uint32_t field, std::string_view text, size_t first,
+                                    size_t last) {
+  const auto& items = cur_->items;
+  if (last + 1 >= items.size()) return;
+  uint32_t after = items[last].end, next = items[last + 1].begin;
+  if (after == next || text.substr(after, next - after).find('\n') != std::string_view::npos)
+    return;
+  for (size_t i = first; i < last; ++i) {
+    std::string_view gap = text.substr(items[i].end, items[i + 1].begin - items[i].end);
+    if (gap.find('\n') == std::string_view::npos) continue;
+    Edit e;
+    e.field = field;
+    e.begin = after;
+    e.end = next;
+    e.replacement = std::string(gap);
+    e.reason = EditReason::agreement;
+    e.note = "line break kept";
+    pending_.push_back(std::move(e));
+    return;
+  }
+}
+
+void LexiconWorker::merge_pending(size_t first_edit, RecordResult& out) {
+  if (pending_.empty()) return;
+  auto by_begin = [](const Edit& a, const Edit& b) { return a.begin < b.begin; };
+  for (Edit& p : pending_) {
+    bool overlaps = false;
+    for (size_t i = first_edit; i < out.edits.size(); ++i)
+      overlaps = overlaps || (out.edits[i].begin < p.end && p.begin < out.edits[i].end);
+    if (!overlaps) out.edits.push_back(std::move(p));
+  }
+  pending_.clear();
+  std::stable_sort(out.edits.begin() + static_cast<std::ptrdiff_t>(first_edit), out.edits.end(),
+                   by_begin);
+}
+
+const pack::LexEntry* LexiconWorker::shared_form(std::string_view folded, uint16_t not_group,
+                                                 std::span<const std::string_view> forms) const {
+  const WordSlots* slots = e_.words_.find(folded);
+  if (!slots || !slots->lex) return nullptr;
+  for (const auto& en : *slots->lex) {
+    if (en.is_name || en.words.size() != 1 || en.group == not_group) continue;
+    std::string_view f = form_at_target(en);
+    if (!f.empty() && std::find(forms.begin(), forms.end(), f) != forms.end()) return &en;
+  }
+  return nullptr;
+}
+
+std::string_view LexiconWorker::form_at_target(const pack::LexEntry& en) const {
+  return e_.pack_->sets()[en.set].forms[e_.target_[en.group]];
+}
+
+std::optional<LexiconWorker::Pair> LexiconWorker::coordinated_pair(size_t k, const Match& m,
+                                                                   std::string_view form) const {
+  if (m.first->is_name || m.clitic > 0 || !e_.options_.toward) return std::nullopt;
+  const auto& items = cur_->items;
+  const size_t n = items.size(), last = k + m.len - 1;
+  const uint16_t g = m.first->group;
+  std::vector<std::string_view> forms{form};  // what this word may become
+  for (const auto* c : cands_) forms.push_back(form_at_target(*c));
+  auto is = [&](size_t j, std::string_view w) { return j < n && folded(j) == w; };
+  auto touching = [&](size_t a, size_t b) { return items[a].end == items[b].begin; };
+  // Forward: "he or she", "he/she", "he (or she)"; "him or herself", where the first word with
+  // "self" is a form of the second's kind.
+  bool paren = is(last + 1, "(") && is(last + 2, "or");
+  size_t s = paren ? last + 3 : is(last + 1, "or") || is(last + 1, "/") ? last + 2 : n;
+  if (s < n && items[s].kind == text::TokenKind::word && (!paren || is(s + 1, ")"))) {
+    const pack::LexEntry* other = shared_form(folded(s), g, forms);
+    std::string_view f = other ? form_at_target(*other) : std::string_view{};
+    if (!other) {
+      const WordSlots* own = e_.words_.find(std::string(folded(k)) + "self");
+      for (size_t i = 0; own && own->lex && i < own->lex->size() && !other; ++i) {
+        std::string_view fo = form_at_target((*own->lex)[i]);
+        if ((*own->lex)[i].group == g && !fo.empty()) other = shared_form(folded(s), g, {&fo, 1});
+        f = fo;
+      }
+    }
+    if (other) return Pair{k, paren ? s + 1 : s, s, other->group, f};
+  }
+  // Backward: a fragment that makes the other form with this word ("s/he", "(s)he").
+  if (k >= 2 && items[k - 2].kind == text::TokenKind::word && touching(k - 2, k - 1) &&
+      touching(k - 1, k) && (is(k - 1, "/") || is(k - 1, ")"))) {
+    size_t first = !is(k - 1, ")") ? k - 2 : k >= 3 && is(k - 3, "(") ? k - 3 : n;
+    std::string whole = std::string(folded(k - 2)) + std::string(folded(k));
+    const pack::LexEntry* other = first < n ? shared_form(whole, g, forms) : nullptr;
+    if (other) return Pair{first, last, k - 2, other->group, form_at_target(*other)};
+  }
+  return std::nullopt;
+}
+
+// Words that open a clause of their own: a verb after them has another subject.
+static bool opens_clause(std::string_view w) {
+  static constexpr std::array<std::string_view, 17> kWords = {
+      "that",  "who",   "which",  "whom",     "whose",  "when",  "where",   "if",  "because",
+      "while", "since", "though", "although", "unless", "until", "whether", "than"};
+  return std::find(kWords.begin(), kWords.end(), w) != kWords.end();
 }
 
 size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size_t k, size_t len,
@@ -884,13 +1039,13 @@ size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size
   }
   out.edits.push_back(std::move(pronoun));
   // The verb after the subject, past adverbs ("she often goes").
-  size_t j = last + 1;
-  while (word_at(j) && verbs.is_preverbal_adverb(folded(j))) ++j;
+  size_t j = skip_adverbs(last + 1);
   if (!word_at(j)) return last;  // punctuation or the end: nothing to agree
   auto a = verbs.pluralize(folded(j));
   if (after_and && a.kind != VerbTable::Answer::plural) return last;
   if (a.kind == VerbTable::Answer::plural) {
     out.edits.push_back(agree(j, a.form, "verb agrees with plural subject"));
+    coordinated_verbs(field, text, j, k > 0 && opens_clause(folded(k - 1)));
     return j;
   }
   if (a.kind == VerbTable::Answer::unknown) {
@@ -898,6 +1053,60 @@ size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size
         {"unsettled_verb", "'" + std::string(raw(j)) + "' after the subject: " + a.reason});
   }
   return last;
+}
+
+size_t LexiconWorker::skip_adverbs(size_t j) const {
+  const auto& items = cur_->items;
+  auto word_at = [&](size_t i) {
+    return i < items.size() && items[i].kind == text::TokenKind::word;
+  };
+  while (word_at(j)) {
+    if (e_.verbs_->is_preverbal_adverb(folded(j))) {
+      ++j;
+    } else if (folded(j) == "no" && word_at(j + 1) && folded(j + 1) == "longer") {
+      j += 2;
+    } else {
+      break;
+    }
+  }
+  return j;
+}
+
+void LexiconWorker::coordinated_verbs(uint32_t field, std::string_view text, size_t j,
+                                      bool subordinate) {
+  const VerbTable& verbs = *e_.verbs_;
+  const auto& items = cur_->items;
+  auto word_at = [&](size_t i) {
+    return i < items.size() && items[i].kind == text::TokenKind::word;
+  };
+  // The scan ends at the end of the clause: sentence punctuation, a quotation mark or a
+  // bracket, a word that opens another clause, or a finite verb not after a conjunction
+  // (its subject is someone else: "they say Mary sings and dances").
+  for (size_t i = j + 1; i < items.size() && i < j + 16; ++i) {
+    std::string_view w = folded(i);
+    if (!word_at(i) && w != ",") return;
+    if (word_at(i) && (opens_clause(w) || verbs.is_third_singular(w))) return;
+    if (w != "and" && w != "or" && w != "but") continue;
+    // "and" joins like with like: after a word ending in s ("loves cats and dogs") what
+    // follows may be a noun, not a verb; leave it.
+    bool comma = i - 1 > j && folded(i - 1) == ",";
+    if (comma && subordinate) return;
+    size_t before = comma ? i - 2 : i - 1;
+    if (before > j && folded(before).ends_with("s")) return;
+    size_t v = skip_adverbs(i + 1);
+    if (!word_at(v) || !verbs.is_third_singular(folded(v))) continue;
+    auto a = verbs.pluralize(folded(v));
+    if (a.kind != VerbTable::Answer::plural) return;
+    Edit e;
+    e.field = field;
+    e.begin = items[v].begin;
+    e.end = items[v].end;
+    e.replacement = recase(text.substr(e.begin, e.end - e.begin), a.form);
+    e.reason = EditReason::agreement;
+    e.note = "verb coordinated with an agreed verb";
+    pending_.push_back(std::move(e));
+    i = v;
+  }
 }
 
 const pack::Guard* LexiconWorker::find_guard(std::span<const std::string_view> fields, bool keep) {
