@@ -52,9 +52,11 @@ inline void check_result(std::span<const std::string_view> fields, const rewrite
         e.reason == rewrite::EditReason::context)
       ++mentions;
   FUZZ_CHECK(mentions == hits.size(), "an edit of a mention without its entry hit");
-  FUZZ_CHECK(std::accumulate(r.before.begin(), r.before.end(), 0u) ==
+  // A coordinated pair that collapses toward one form ("he/she" -> "they") is one mention
+  // after for two before; nothing adds mentions.
+  FUZZ_CHECK(std::accumulate(r.before.begin(), r.before.end(), 0u) >=
                  std::accumulate(r.after.begin(), r.after.end(), 0u),
-             "mentions before and after differ in number");
+             "more mentions after than before");
 }
 
 }  // namespace evenhand::fuzz
