@@ -31,18 +31,6 @@ const VerbTable& verbs() {
   return *table;
 }
 
-// True when `text` has a line that is neither blank nor a '#' comment (CR before LF ignored).
-bool has_record(std::string_view text) {
-  for (size_t pos = 0; pos < text.size();) {
-    size_t end = std::min(text.find('\n', pos), text.size());
-    std::string_view line = text.substr(pos, end - pos);
-    if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
-    if (!line.empty() && line[0] != '#') return true;
-    pos = end + 1;
-  }
-  return false;
-}
-
 void check_bits(const en::PersonContext& lex, std::string_view folded) {
   uint32_t bits = lex.lists_of(folded);
   for (size_t l = 0; l < static_cast<size_t>(Lexicon::count); ++l) {
@@ -94,7 +82,7 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   }
   auto parsed = en::PersonContext::parse(lexicons, "fuzz.data");
   if (!parsed.ok()) {
-    FUZZ_CHECK(parsed.error().line.has_value() || !has_record(lexicons),
+    FUZZ_CHECK(parsed.error().line.has_value() || !fuzz::has_record(lexicons),
                "a person-context.data error without a line");
     return 0;
   }

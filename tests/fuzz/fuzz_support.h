@@ -90,4 +90,17 @@ struct Mix {
   size_t below(size_t n) { return n ? static_cast<size_t>(next() % n) : 0; }
 };
 
+// A data file text with a record: a line that is neither blank nor a '#' comment (CR before
+// LF ignored). Loaders may refuse a text without one as a whole, without a line.
+inline bool has_record(std::string_view text) {
+  for (size_t pos = 0; pos < text.size();) {
+    size_t end = std::min(text.find('\n', pos), text.size());
+    std::string_view line = text.substr(pos, end - pos);
+    if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
+    if (!line.empty() && line[0] != '#') return true;
+    pos = end + 1;
+  }
+  return false;
+}
+
 }  // namespace evenhand::fuzz

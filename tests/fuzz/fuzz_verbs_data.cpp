@@ -27,18 +27,6 @@ void check_token(const VerbTable& t, std::string_view token) {
   (void)t.is_preverbal_adverb(token);
 }
 
-// True when `text` has a line that is neither blank nor a '#' comment (CR before LF ignored).
-bool has_record(std::string_view text) {
-  for (size_t pos = 0; pos < text.size();) {
-    size_t end = std::min(text.find('\n', pos), text.size());
-    std::string_view line = text.substr(pos, end - pos);
-    if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
-    if (!line.empty() && line[0] != '#') return true;
-    pos = end + 1;
-  }
-  return false;
-}
-
 }  // namespace
 
 extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
@@ -46,7 +34,7 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   auto table = VerbTable::parse(text);
   if (!table.ok()) {
     // A bad record names its line; only a text without any record is about the whole file.
-    FUZZ_CHECK(table.error().line.has_value() || !has_record(text),
+    FUZZ_CHECK(table.error().line.has_value() || !fuzz::has_record(text),
                "a verbs.data error without a line");
     return 0;
   }
