@@ -377,7 +377,8 @@ TEST_CASE("report: headless Chromium loads the page and finds the charts") {
   CHECK(shot.substr(1, 3) == "PNG");  // PNG signature (ISO/IEC 15948)
 }
 
-TEST_CASE("review: an unknown --why is a usage error, and standard input is read back from a copy") {
+TEST_CASE(
+    "review: an unknown --why is a usage error, and standard input is read back from a copy") {
   TempDir d;
   demo(d);
   auto bogus = run(d, "review " + d.file("edits.jsonl") + " --why bogus");
