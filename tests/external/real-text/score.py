@@ -129,6 +129,23 @@ def score_half(half, records, outputs, edits, names, expected, errors=None):
                       f"records: {right}/{total}; edits: {good_edits}/{all_edits}"}
 
 
+def report_halves(args, floors, score, describe):
+    """Prints each half's figures (`describe(score(half, errors))`; with --dev the development
+    half only, then its errors) and with --check exits 1 when a figure is below `floors`."""
+    dev_only = "--dev" in args
+    errors = [] if dev_only else None
+    failed = []
+    for half in ("dev",) if dev_only else ("dev", "held"):
+        s = score(half, errors)
+        print(f"{half:>4}: {describe(s)}")
+        failed += [f"{half} {k} {s[k]:.3f} < {v}" for k, v in floors[half].items() if s[k] < v]
+    for line in errors or []:
+        print(line)
+    if "--check" in args and failed:
+        print("score.py: below floor: " + "; ".join(failed), file=sys.stderr)
+        sys.exit(1)
+
+
 def main():
     args = sys.argv[1:]
     binary = Path(args[args.index("--bin") + 1]) if "--bin" in args else ROOT / "build/evenhand"
@@ -163,20 +180,10 @@ def main():
     edits = applied_edits(log, ids)
     print(f"real-text: {len(records)} records, {len(names)} labelled names "
           f"({unsure} unsure left out), {len(expected)} expected records")
-    failed = []
-    dev_only = "--dev" in args
-    errors = [] if dev_only else None
-    for half in ("dev",) if dev_only else ("dev", "held"):
-        s = score_half(half, records, outputs, edits, names, expected, errors)
-        print(f"{half:>4}: name precision {s['precision']:.1%}  recall {s['recall']:.1%}  "
-              f"records fully right {s['records']:.1%}  edit precision {s['edit_precision']:.1%}"
-              f"  ({s['counts']})")
-        failed += [f"{half} {k} {s[k]:.3f} < {v}" for k, v in FLOORS[half].items() if s[k] < v]
-    for line in errors or []:
-        print(line)
-    if "--check" in args and failed:
-        print("score.py: below floor: " + "; ".join(failed), file=sys.stderr)
-        sys.exit(1)
+    report_halves(args, FLOORS, lambda half, errors: score_half(
+        half, records, outputs, edits, names, expected, errors), lambda s: (
+        f"name precision {s['precision']:.1%}  recall {s['recall']:.1%}  records fully right "
+        f"{s['records']:.1%}  edit precision {s['edit_precision']:.1%}  ({s['counts']})"))
 
 
 if __name__ == "__main__":
