@@ -7,7 +7,7 @@ Python 3 standard library only. Inputs (none is committed; install them first):
 
   * WordNet 3.0 (Princeton University) as shipped by the Debian package wordnet-base
     (/usr/share/wordnet: data.noun, index.noun, noun.exc, data.verb, index.verb, verb.exc,
-    data.adj, index.adj);
+    data.adj, index.adj, adj.exc, index.adv, cntlist.rev);
   * rules/en-gender/guards.txt (hand-written guards): a phrase listed there is left out here,
     since a pack may list a phrase only once.
 
@@ -31,6 +31,11 @@ Method (also written into the output header, with counts):
      dropped; "pregnancy", "childbirth", "uterus", "menstruate" are kept. Lemmas with a
      capital letter or a digit (proper names, abbreviations such as "ED", "OB") and lemmas of
      fewer than MIN_LETTERS letters are dropped too.
+     5b. A phrase is dropped when its word's tagged occurrences in SemCor (cntlist.rev),
+     over all lemmas it may be a form of and all parts of speech, fall more often on senses
+     outside the set ("come", "cock", "brooding"). 5c. A one-word phrase is dropped when it is,
+     or may be a form of, a lemma of any part of speech whose first sense is outside the set
+     ("births": birth; "lactate": the salt). EXCLUDED lists lemmas left out by hand.
   6. Forms: nouns with their plurals (noun.exc where it lists one, else the regular spelling);
      verbs with 3sg, past and -ing (verb.exc where it lists one, else the regular spelling);
      adjectives as they are. Underscores become spaces.
@@ -92,7 +97,17 @@ ROOTS = [
     ("eunuch", 1, False),
     ("maiden_name", 1, False),           # a woman's surname before marriage
 ]
-CONDITION_FILES = {4, 26}  # noun.act, noun.state (lexnames(5WN))
+# Lemmas of the closures left out by hand, as a pattern over the whole lemma (common practice,
+# general knowledge of English): hatching and being born are the young's acts, not the
+# mother's (the labelling guide counts them as not sex-specific); the urethra, nipples, a
+# prolapse, elephantiasis and the flagellum's "whiplike" belong to both sexes; "parity",
+# "para", "confinement", "erection" and "cervical" (of the neck, as guards.txt says) have
+# common senses in ordinary text that WordNet ranks lower.
+EXCLUDED = re.compile(r"(?:hatch|hatching|be_born|urethr\w*|nipples?|mamm?illae?|"
+                      r"prolaps\w*|elephantiasis|ventral|whiplike|lash-like|parity|para|"
+                      r"confinement|erection|cervical)")
+CONDITION_FILES = {4, 26}
+LATIN_ENDINGS = ("is", "us", "ia", "ae", "um", "a", "x")  # noun.act, noun.state (lexnames(5WN))
 DERIVED_POINTERS = {"+", "\\", "="}
 
 
@@ -168,6 +183,8 @@ def kept_lemmas(data, index, synsets):
             if w != lemma or any(c.isdigit() for c in w) or \
                     sum(c.isalpha() for c in w) < MIN_LETTERS:
                 dropped.add(w)
+            elif EXCLUDED.fullmatch(lemma):
+                dropped.add(lemma)
             elif index[lemma][1][0] in synsets:
                 kept.add(lemma)
             else:
@@ -213,7 +230,21 @@ def mostly_elsewhere(phrase, counts, exceptions, inside):
     return sum(n for key, n in hits) - inn > inn
 
 
+def other_first_sense(phrase, indexes, exceptions, inside):
+    """Step 5c: whether a one-word phrase is, or may be a form of, a lemma of any part of
+    speech whose first sense is outside the set ("lactate" the salt, "births")."""
+    if " " in phrase:
+        return False
+    for lemma in base_forms(phrase, exceptions):
+        for pos, index in indexes.items():
+            if lemma in index and (pos, index[lemma][1][0]) not in inside:
+                return True
+    return False
+
+
 def noun_forms(lemma, irregular):
+    if lemma.endswith(LATIN_ENDINGS) and lemma not in irregular:
+        return [lemma]  # "mastitis", "uterus", "labia": no regular plural (noun.exc lists some)
     if "_" in lemma:
         head, _, last = lemma.rpartition("_")
         return [lemma] + [head + "_" + p for p in wn.plural(last, irregular)]
@@ -221,6 +252,9 @@ def noun_forms(lemma, irregular):
 
 
 def verb_forms(lemma, irregular):
+    if "_" in lemma:  # a phrasal verb inflects its first word: give_birth -> gave_birth
+        head, _, rest = lemma.partition("_")
+        return [f + "_" + rest for f in verb_forms(head, irregular)]
     if lemma in irregular:
         return [lemma] + irregular[lemma] + [build_verbs.third_singular(lemma),
                                               build_verbs.present_participle(lemma)]
@@ -269,7 +303,9 @@ def build(wordnet):
         for base, inflected in read_exc(path(name)).items():
             for form in inflected:
                 exceptions.setdefault(form, set()).add(base)
-    elsewhere = {p for p in phrases if mostly_elsewhere(p, counts, exceptions, inside)}
+    elsewhere = {p for p in phrases if mostly_elsewhere(p, counts, exceptions, inside)
+                 or other_first_sense(p, indexes, exceptions, inside)
+                 or sum(c.isalpha() for c in p) < MIN_LETTERS}
     st["elsewhere"] = sorted(elsewhere)
     phrases -= elsewhere
     hand = hand_phrases()

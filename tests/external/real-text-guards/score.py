@@ -8,7 +8,9 @@ records.jsonl with an audit log; a record is guarded when the log has an `"actio
 "guarded"` line for it (every guarded record gets one, with or without gendered words). Prints
 for the development and the held-out half (split.txt):
 - guard recall: `sex` records guarded / `sex` records;
-- false-guard rate: `not` records guarded / `not` records (`unsure` left out of both).
+- false-guard rate: `not` records guarded / `not` records (`unsure` left out of both), and the
+  same over the random sample alone (`kind: sample`: ordinary records that mention people;
+  the keyword candidates are hard negatives chosen for words near the topic).
 With --check, exits 1 when a figure of either half is on the wrong side of its floor (FLOORS).
 With --dev (for tuning), prints the development half only and lists its missed and falsely
 guarded records, so that tuning never shows the held-out half.
@@ -41,7 +43,7 @@ FLOORS = {
 
 
 def score_half(half, records, labels, guarded, errors=None):
-    sex = hit = nots = false = 0
+    sex = hit = nots = false = sample = sample_false = 0
     for rid, rec in records.items():
         label = labels[rid][0]
         if rec["half"] != half or label == "unsure":
@@ -55,11 +57,15 @@ def score_half(half, records, labels, guarded, errors=None):
         else:
             nots += 1
             false += g is not None
+            sample += rec["kind"] == "sample"
+            sample_false += rec["kind"] == "sample" and g is not None
             if errors is not None and g is not None:
                 errors.append(f"false   {rid} [{g}]: {rec['text'][:160]!r}")
     ratio = lambda n, d: n / d if d else 1.0
     return {"recall": ratio(hit, sex), "false_rate": ratio(false, nots),
-            "counts": f"{hit}/{sex} sex-specific guarded, {false}/{nots} others guarded"}
+            "sample_false_rate": ratio(sample_false, sample),
+            "counts": f"{hit}/{sex} sex-specific guarded, {false}/{nots} others guarded, "
+                      f"{sample_false}/{sample} of the random sample"}
 
 
 def main():
@@ -71,7 +77,7 @@ def main():
         half = names_extract.half(r["id"])
         if split[r["id"]] != half:
             sys.exit(f"score.py: split.txt disagrees with the hash rule for {r['id']}")
-        records[r["id"]] = {"text": r["text"], "half": half}
+        records[r["id"]] = {"text": r["text"], "half": half, "kind": r["kind"]}
     labels = {}
     for line in (HERE / "labels.tsv").read_text(encoding="utf-8").splitlines():
         rid, label, note = line.split("\t")
@@ -91,7 +97,7 @@ def main():
     for half in ("dev",) if errors is not None else ("dev", "held"):
         s = score_half(half, records, labels, guarded, errors)
         print(f"{half:>4}: guard recall {s['recall']:.1%}  false guards {s['false_rate']:.1%}"
-              f"  ({s['counts']})")
+              f" (random sample {s['sample_false_rate']:.1%})  ({s['counts']})")
         if s["recall"] < FLOORS[half]["recall"]:
             failed.append(f"{half} recall {s['recall']:.3f} < {FLOORS[half]['recall']}")
         if s["false_rate"] > FLOORS[half]["false_rate"]:
