@@ -35,10 +35,16 @@ def load_module(name, path):
 names_score = load_module("names_score", HERE.parent / "real-text" / "score.py")
 names_extract = load_module("names_extract", HERE.parent / "real-text" / "extract.py")
 
-# Floors checked by --check (see README.md for why they sit where they do).
+# Floors checked by --check. Recall floors sit about three points below the figures of the
+# WordNet vocabulary (README.md: dev 86.0%, held-out 75.4%; before it, 33.3% and 30.4%, so the
+# test fails on the pack without guards-wordnet.txt); they are not issue 13's goal (90% on the
+# held-out half), which this vocabulary does not reach. The false-guard ceilings over all `not`
+# records sit about one point above the figures (dev 2.6%, held-out 1.2%: metaphors among the
+# keyword candidates, "gave birth to", "pregnant silence"); over the random sample of ordinary
+# records the ceiling is the goal itself, 1%.
 FLOORS = {
-    "dev": {"recall": 0.0, "false_rate": 1.0},
-    "held": {"recall": 0.0, "false_rate": 1.0},
+    "dev": {"recall": 0.83, "false_rate": 0.04, "sample_false_rate": 0.01},
+    "held": {"recall": 0.72, "false_rate": 0.025, "sample_false_rate": 0.01},
 }
 
 
@@ -100,9 +106,9 @@ def main():
               f" (random sample {s['sample_false_rate']:.1%})  ({s['counts']})")
         if s["recall"] < FLOORS[half]["recall"]:
             failed.append(f"{half} recall {s['recall']:.3f} < {FLOORS[half]['recall']}")
-        if s["false_rate"] > FLOORS[half]["false_rate"]:
-            failed.append(f"{half} false-guard rate {s['false_rate']:.3f} > "
-                          f"{FLOORS[half]['false_rate']}")
+        for key in ("false_rate", "sample_false_rate"):
+            if s[key] > FLOORS[half][key]:
+                failed.append(f"{half} {key} {s[key]:.3f} > {FLOORS[half][key]}")
     for line in errors or []:
         print(line)
     if "--check" in args and failed:
