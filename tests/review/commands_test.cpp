@@ -54,7 +54,7 @@ TEST_CASE("review: filters, sample, no colour when piped, colour on request") {
   auto guarded = run(d, "review " + log + " --guard medical");
   REQUIRE(guarded.code == 0);
   CHECK(guarded.out.find("shown 4 of 4 matching records") != std::string::npos);
-  CHECK(guarded.out.find("guarded (medical: 'prostate', guards.txt:50)") != std::string::npos);
+  CHECK(guarded.out.find("guarded (medical: 'prostate', guards.txt:73)") != std::string::npos);
 
   auto rule = run(d, "review " + log + " --rule words.txt:300 --why lexicon");
   REQUIRE(rule.code == 0);
@@ -68,7 +68,7 @@ TEST_CASE("review: filters, sample, no colour when piped, colour on request") {
   CHECK(s1.out == s2.out);
   CHECK(s1.out.find("shown 5 of 223 matching records") != std::string::npos);
 
-  auto always = run(d, "review " + log + " --sample 2 --color always");
+  auto always = run(d, "review " + log + " --why name --sample 2 --color always");
   CHECK(always.out.find("\x1b[32;1m") != std::string::npos);
   // NO_COLOR (no-color.org) only matters for --color auto, which needs a terminal.
   auto no_color = run(d, "review " + log + " --sample 2", "NO_COLOR=1");
@@ -251,7 +251,7 @@ TEST_CASE("report: a self-contained page, written all or nothing") {
   CHECK(page.find("@import") == std::string::npos);
   CHECK(page.find("default-src 'none'") != std::string::npos);
   // The manifest's figures and hashes are on the page.
-  CHECK(page.find("4 records left as they were") != std::string::npos);
+  CHECK(page.find("5 records left as they were") != std::string::npos);
   // The sample: 12 records by default, each edit marked up.
   std::regex rec("<div class=\"rec\">");
   CHECK(std::distance(std::sregex_iterator(page.begin(), page.end(), rec),

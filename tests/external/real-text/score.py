@@ -46,10 +46,11 @@ def load_jsonl(path):
     return [json.loads(line) for line in path.read_text(encoding="utf-8").splitlines() if line]
 
 
-def run_engine(binary, work):
+def run_engine(binary, work, records=HERE / "records.jsonl"):
+    """Runs evenhand on a records file (../real-text-guards shares this); (output, audit log)."""
     out, log = work / "out.jsonl", work / "edits.jsonl"
     cmd = [str(binary), "run", "--pack", "en-gender", "--mode", "substitute", "--rate", "1",
-           "--in", str(HERE / "records.jsonl"), "--field", "/text", "--out", str(out),
+           "--in", str(records), "--field", "/text", "--out", str(out),
            "--edits", str(log), "--threads", "1", "--quiet"]
     subprocess.run(cmd, check=True)
     return load_jsonl(out), load_jsonl(log)
