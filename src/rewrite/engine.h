@@ -123,17 +123,18 @@ class VerbTable;
 class NounPhraseAgreement;
 namespace en {
 class PersonContext;
-}
+class Senses;
+}  // namespace en
 
 // The pack's data files the engine reads, parsed; each is null when the pack has no such file
 // (possessive.model with word-classes.data, verbs.data, noun-phrase.data with the three files
-// it needs,
-// person-context.data).
+// it needs, person-context.data, senses.data).
 struct EngineData {
   std::shared_ptr<const PossessiveModel> possessive;
   std::shared_ptr<const VerbTable> verbs;
   std::shared_ptr<const NounPhraseAgreement> noun_phrases;
   std::shared_ptr<const en::PersonContext> persons;
+  std::shared_ptr<const en::Senses> senses;  // senses.data
 };
 
 // Runs every loader of the engine's data files on `pack`, each file named in errors by

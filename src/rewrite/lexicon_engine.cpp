@@ -26,6 +26,7 @@
 #include "rewrite/en/article.h"
 #include "rewrite/en/person_context.h"
 #include "rewrite/en/possessive.h"
+#include "rewrite/en/senses.h"
 #include "rewrite/en/verb_agreement.h"
 #include "rewrite/engine.h"
 #include "rewrite/es/np_agreement.h"
@@ -79,6 +80,7 @@ struct WordSlots {
   const std::vector<PhraseIndex::Phrase>* prot = nullptr;
   bool mixed_name = false;               // a first name both sexes carry (person evidence)
   const pack::LexEntry* name = nullptr;  // the single-word first-name entry of lex, if any
+  bool unpaired = false;  // a gendered person word the pack has no set for (senses.data)
 };
 
 // Folded word -> WordSlots in a flat table (whose filter turns most tokens, which are in no
@@ -222,6 +224,16 @@ class LexiconWorker final : public Worker {
   void merge_pending(size_t first_edit, RecordResult& out);
   void spanish_field(uint32_t field, std::string_view text, RecordResult& out, bool guarded);
   void field_matches(uint32_t field, std::string_view text, RecordResult& out, bool guarded);
+  // Word senses (English senses.data): whether match m at item k is no person here
+  // (laughter, a network host, "God"), and notes a person word the pack cannot map.
+  bool other_sense(std::string_view text, size_t k, const Match& m);
+  // Notes the person word at item k of `field` the pack cannot map, with its sentence.
+  void note_unpaired(uint32_t field, std::string_view text, size_t k, const char* why);
+  // The same word at items a and b with only white space or hyphens between.
+  bool doubled_at(std::string_view text, size_t a, size_t b) const;
+  // Flags the record when a mention in the sentence of a noted word changed group (the word
+  // and the rewritten mention may be one person: "She was the sole heiress").
+  void flag_unpaired(RecordResult& out) const;
 
   const LexiconEngine& e_;
   text::Tokenizer tokenizer_;
@@ -254,7 +266,13 @@ class LexiconWorker final : public Worker {
   std::vector<FieldToken> np_tokens_;  // items for noun-phrase agreement (packs that have it)
   std::vector<NameCall> calls_;        // the record's judged names (person evidence)
   std::string unswappable_;            // the first person the pack cannot swap, as written
-  en::NameSite site_;                  // reused for every judged name
+  struct Unpaired {
+    uint32_t field = 0, sentence_begin = 0, sentence_end = 0;
+    std::string detail;  // the word as written and why
+  };
+  std::vector<Unpaired> unpaired_;        // the record's person words the pack cannot map
+  std::vector<FieldToken> sense_tokens_;  // the field's items for Senses (filled on demand)
+  en::NameSite site_;                     // reused for every judged name
 };
 
 class LexiconEngine final : public Engine {
@@ -264,13 +282,15 @@ class LexiconEngine final : public Engine {
                 std::shared_ptr<const PossessiveModel> model,
                 std::shared_ptr<const VerbTable> verbs,
                 std::shared_ptr<const NounPhraseAgreement> np,
-                std::shared_ptr<const en::PersonContext> persons, const EngineOptions& o)
+                std::shared_ptr<const en::PersonContext> persons,
+                std::shared_ptr<const en::Senses> senses, const EngineOptions& o)
       : pack_(std::move(p)),
         protect_(std::move(ps)),
         model_(std::move(model)),
         verbs_(std::move(verbs)),
         np_(std::move(np)),
         persons_(std::move(persons)),
+        senses_(std::move(senses)),
         options_(o) {
     const auto& groups = pack_->groups();
     target_.resize(groups.size());
@@ -294,6 +314,12 @@ class LexiconEngine final : public Engine {
     if (persons_)
       for (const auto& w : persons_->mixed_names()) words_[w].mixed_name = true;
     for (const auto& pair : pack_->names()) word_like_pair_.push_back(word_like(pair));
+    if (senses_) {
+      for (const auto& [key, value] : pack_->meta())
+        if (key == "capital-god") keep_god_ = value != "rewrite";
+      senses_->for_each(en::Sense::unpaired,
+                        [&](std::string_view w) { words_[std::string(w)].unpaired = true; });
+    }
     words_.freeze();
   }
   const pack::CompiledPack* pack() const override { return pack_.get(); }
@@ -307,7 +333,9 @@ class LexiconEngine final : public Engine {
   std::shared_ptr<const VerbTable> verbs_;
   std::shared_ptr<const NounPhraseAgreement> np_;     // null unless the pack has noun-phrase.data
   std::shared_ptr<const en::PersonContext> persons_;  // null unless person-context.data
-  std::vector<uint8_t> word_like_pair_;               // per name pair: holds a common word
+  std::shared_ptr<const en::Senses> senses_;          // null unless senses.data
+  bool keep_god_ = true;  // senses: capitalised "God" is a name (pack meta capital-god)
+  std::vector<uint8_t> word_like_pair_;  // per name pair: holds a common word
 
   bool word_like(const pack::NamePair& pair) const {
     if (!persons_ || persons_->size(en::Lexicon::word_name) == 0) return pair.word_like;
@@ -811,9 +839,14 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
   if (e_.np_) return spanish_field(field, text, out, guarded);
   const pack::CompiledPack& pk = *e_.pack_;
   const size_t first_edit = out.edits.size();
+  sense_tokens_.clear();
   for (size_t k = 0; k < cur_->items.size(); ++k) {
     const auto* entries = entries_at(k);
-    if (entries == nullptr) continue;
+    if (entries == nullptr) {
+      if (cur_->items[k].slots && cur_->items[k].slots->unpaired)
+        note_unpaired(field, text, k, "has no counterpart in the pack");
+      continue;
+    }
     Match m = longest_match(k, *entries);
     if (!m.first) continue;
     uint32_t begin = cur_->items[k].begin;
@@ -826,6 +859,10 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
     }
     std::string_view original = text.substr(begin, end - begin);
     if (m.first->is_name && !names_person(*m.first, k, original, &m.note)) continue;
+    if (!m.first->is_name && e_.senses_ && other_sense(text, k, m)) {
+      k = next;
+      continue;
+    }
     uint16_t g = m.first->group;
     bool one_group = true;
     for (const auto* c : cands_) one_group = one_group && c->group == g;
@@ -862,6 +899,9 @@ void LexiconWorker::field_matches(uint32_t field, std::string_view text, RecordR
       keep_line_break(field, text, pair->first, pair->last);
       k = pair->first;
     } else if (guarded || t == g || replacement.empty()) {
+      // A first name with no form at the target is the names rules' business (unswappable).
+      if (!guarded && t != g && e_.senses_ && !m.first->is_name)
+        note_unpaired(field, text, k, "has no form in that group");
       ++out.after[g];
       k = next;
       continue;
@@ -968,6 +1008,62 @@ static bool opens_clause(std::string_view w) {
       "that",  "who",   "which",  "whom",     "whose",  "when",  "where",   "if",  "because",
       "while", "since", "though", "although", "unless", "until", "whether", "than"};
   return std::find(kWords.begin(), kWords.end(), w) != kWords.end();
+}
+
+bool LexiconWorker::other_sense(std::string_view text, size_t k, const Match& m) {
+  const std::vector<Item>& items = cur_->items;
+  // "he he", "he-he-he": a subject pronoun written twice in a row with only white space or
+  // hyphens between is laughter (or a stammer), not two mentions.
+  auto doubled = [&](size_t a, size_t b) {  // items a < b, maybe a hyphen item between
+    if (b < items.size() && b == a + 2 && folded(a + 1) == "-") return doubled_at(text, a, b);
+    return b < items.size() && b == a + 1 && doubled_at(text, a, b);
+  };
+  bool subject = m.len == 1 && m.clitic == 0;
+  for (const auto* c : cands_) subject = subject && c->tag == pack::Tag::subj;
+  if (subject && ((k > 0 && doubled(k - 1, k)) || (k > 1 && doubled(k - 2, k)) ||
+                  doubled(k, k + 1) || doubled(k, k + 2)))
+    return true;
+  if (sense_tokens_.empty()) {
+    for (size_t j = 0; j < items.size(); ++j)
+      sense_tokens_.push_back(
+          {items[j].begin, items[j].end, folded(j), items[j].kind == text::TokenKind::word});
+  }
+  return e_.senses_->other_sense(text, sense_tokens_, k, e_.keep_god_);
+}
+
+bool LexiconWorker::doubled_at(std::string_view text, size_t a, size_t b) const {
+  if (folded(a) != folded(b)) return false;
+  std::string_view gap = text.substr(cur_->items[a].end, cur_->items[b].begin - cur_->items[a].end);
+  return gap.find_first_not_of(" -") == gap.npos;
+}
+
+void LexiconWorker::note_unpaired(uint32_t field, std::string_view text, size_t k,
+                                  const char* why) {
+  const std::vector<Item>& items = cur_->items;
+  if (is_protected(items[k].begin, items[k].end)) return;
+  // The sentence: from after the last token made only of . ! ? before the word to the next.
+  auto ends_sentence = [&](size_t j) {
+    std::string_view w = folded(j);
+    return !w.empty() && w.find_first_not_of(".!?") == std::string_view::npos;
+  };
+  size_t first = k, last = k;
+  while (first > 0 && !ends_sentence(first - 1)) --first;
+  while (last + 1 < items.size() && !ends_sentence(last)) ++last;
+  const Item& it = items[k];
+  unpaired_.push_back({field, items[first].begin, items[last].end,
+                       std::string(text.substr(it.begin, it.end - it.begin)) + "' " + why});
+}
+
+void LexiconWorker::flag_unpaired(RecordResult& out) const {
+  for (const Unpaired& u : unpaired_) {
+    for (const Edit& e : out.edits) {
+      if (e.field == u.field && e.from_group != Edit::kNone && e.from_group != e.to_group &&
+          e.begin >= u.sentence_begin && e.begin < u.sentence_end) {
+        out.flags.push_back({"unpaired_person", "'" + u.detail});
+        return;
+      }
+    }
+  }
 }
 
 size_t LexiconWorker::verb_agreement(uint32_t field, std::string_view text, size_t k, size_t len,
@@ -1148,6 +1244,7 @@ void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResu
   // Names are judged over the whole record when its fields are kept, else field by field.
   calls_.clear();
   unswappable_.clear();
+  unpaired_.clear();
   const bool judge = e_.persons_ != nullptr;
   if (judge && keep) {
     for (uint32_t f = 0; f < fields.size(); ++f) {
@@ -1169,6 +1266,7 @@ void LexiconWorker::rewrite(std::span<const std::string_view> fields, RecordResu
   }
   keep_edits_apart(out);
   flag_unswappable(out);
+  flag_unpaired(out);
 }
 
 void LexiconWorker::trim() {
@@ -1199,6 +1297,7 @@ Result<EngineData> load_engine_data(const std::shared_ptr<const pack::CompiledPa
   if (pack->file(kVerbsFile)) take(VerbTable::from_pack(*pack), data.verbs);
   if (pack->file(kNounPhraseFile)) take(NounPhraseAgreement::from_pack(pack), data.noun_phrases);
   if (pack->file(en::kPersonContextFile)) take(en::PersonContext::from_pack(*pack), data.persons);
+  if (pack->file(en::kSensesFile)) take(en::Senses::from_pack(*pack), data.senses);
   if (problems.size() > first) return problems[first];
   return data;
 }
@@ -1212,7 +1311,7 @@ Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::Compiled
   }
   return std::unique_ptr<Engine>(std::make_unique<LexiconEngine>(
       std::move(pack), std::move(*ps), std::move(data.possessive), std::move(data.verbs),
-      std::move(data.noun_phrases), std::move(data.persons), options));
+      std::move(data.noun_phrases), std::move(data.persons), std::move(data.senses), options));
 }
 
 Result<std::unique_ptr<Engine>> make_engine(std::shared_ptr<const pack::CompiledPack> pack,

@@ -141,6 +141,18 @@ class Scanner {
     return j - i;
   }
 
+  // True when the apostrophes at j close an old ASCII quotation opened by `r` backticks
+  // (`word' or ``words'', as in the Brown Corpus and older GNU and Usenet text, tokenised
+  // or not): a run of exactly r apostrophes, followed by the end, white space or . , ; : ! ?
+  bool closes_quote(size_t j, size_t r) const {
+    size_t a = run_length(j, '\'');
+    if (a != r || j == 0 || p_[j - 1] == '`' || p_[j - 1] == '\'') return false;
+    if (j + a == n_) return true;
+    unsigned char c = p_[j + a];
+    return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '.' || c == ',' || c == ';' ||
+           c == ':' || c == '!' || c == '?';
+  }
+
   // Backticks at i: a fence (3+) or an inline code span (1-2). Returns where to go on.
   size_t code(size_t i) {
     size_t r = run_length(i, '`');
@@ -161,6 +173,7 @@ class Scanner {
       return n_;
     }
     while (j < n_ && p_[j] != '\n') {
+      if (p_[j] == '\'' && closes_quote(j, r)) return i + r;  // `word' or ``words''
       if (p_[j] != '`') {
         ++j;
         continue;

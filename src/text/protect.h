@@ -60,7 +60,9 @@ class ProtectedSpans {
   //   code_fence: a run of 3+ backticks up to the next run at least as long, anywhere (not
   //        only at line starts); an unterminated fence runs to the end of the text.
   //   code_inline: a run of 1 or 2 backticks up to the next run of the same length on the
-  //        same line; without one the backticks are plain text.
+  //        same line; without one the backticks are plain text. Backticks that a run of as
+  //        many apostrophes closes first (before that backtick run), the apostrophes followed by
+  //        the end, white space or . , ; : ! ?, are old ASCII quotes (``so'' `so'), not code.
   // User patterns match on UTF-16; their offsets are mapped back to UTF-8 bytes exactly.
   void find(std::string_view text, std::vector<Span>& out) const;
 

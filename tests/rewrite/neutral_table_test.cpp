@@ -9,6 +9,7 @@
 #include <catch2/catch.hpp>
 
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "rewrite/engine.h"
@@ -118,7 +119,9 @@ const std::vector<Row> kRows = {
     {"Mr Patel and his son arrived.", "Mx Patel and their child arrived.", "title Mx"},
     // Sets without a neutral form stay as written.
     {"My aunt sells cheese.", "My aunt sells cheese.", "no neutral form"},
-    {"Her uncle drives a tractor.", "Their uncle drives a tractor.", "no neutral form"},
+    // ... and a record that rewrites another word beside one of them is flagged (issue 13:
+    // a person word the pack cannot map is never left half rewritten without a flag).
+    {"Her uncle drives a tractor.", "Their uncle drives a tractor.", "no neutral form, flagged"},
     {"The actress bought a loaf.", "The actress bought a loaf.", "no neutral form"},
     // a/an chosen again when the next word changes.
     {"An anchorwoman bought rolls.", "A newscaster bought rolls.", "an -> a"},
@@ -138,7 +141,10 @@ TEST_CASE("toward neutral: table of English rewrites", "[neutral][table]") {
   for (const Row& r : kRows) {
     INFO(r.rule << ": " << r.input);
     CHECK(rw(r.input) == r.expected);
-    CHECK(rw.result.flags.empty());
+    if (std::string_view(r.rule).ends_with(", flagged"))
+      CHECK(rw.flagged("unpaired_person"));
+    else
+      CHECK(rw.result.flags.empty());
   }
 }
 

