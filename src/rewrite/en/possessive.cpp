@@ -256,6 +256,15 @@ bool nominal_class(std::string_view c) {
                   "jjt", "od",  "cd", "ap",  "vbn", "vbd", "vbg",  "hvg", "beg", "?",   "<num>"});
 }
 
+// Whether `next` (after "her" or "his") is an adverb or particle not followed by a nominal.
+bool adverb_alone(const PossessiveWords& lex, std::string_view next, std::string_view next_class,
+                  std::string_view after_class) {
+  bool adverb =
+      in_list(next_class, {"rb", "ql", "rbr", "rbt", "rn", "rp"}) ||
+      (next_class == "?" && next.size() > 4 && ends_with(next, "ly") && after_class != ",");
+  return adverb && !lex.has(Set::adverb_noun, next) && !nominal_class(after_class);
+}
+
 // Whether "her" between the folded words `prev` and `next` is the object by rule.
 bool object_rule(const PossessiveWords& lex, std::string_view prev, std::string_view next,
                  std::string_view next_class, std::string_view after_class) {
@@ -266,10 +275,7 @@ bool object_rule(const PossessiveWords& lex, std::string_view prev, std::string_
   //    ("rubbed her back briefly").
   //    Odd files: her 53 object / 1 PP$ (a tag error: "seen her somewhere before");
   //    other pronouns 211 / 3.
-  bool adverb =
-      in_list(next_class, {"rb", "ql", "rbr", "rbt", "rn", "rp"}) ||
-      (next_class == "?" && next.size() > 4 && ends_with(next, "ly") && after_class != ",");
-  if (adverb && !lex.has(Set::adverb_noun, next) && !nominal_class(after_class)) return true;
+  if (adverb_alone(lex, next, next_class, after_class)) return true;
   // 2. A closed-class word that never follows a determiner: an article, pronoun, subordinator,
   //    "to", a wh-word or existential "there" ("gave her the key", "told her that", "tell her
   //    anything"). "every" (after-possessive) is left out ("her every wish"). Odd files:
@@ -700,6 +706,18 @@ Decision PossessiveModel::decide(std::span<const std::string_view> words, size_t
       // left to the weights. Left out: "inside", "outside" and "near" before a nominal, which
       // are adjectives there ("his inside pocket", "his near neighbour"); common practice of
       // English grammar.
+      // "his" before a personal pronoun (Brown tags pps, ppss, ppo: "his it remains", "and his
+      // they took"), a conjunction and a standalone possessive (cc, pp$$: "his or mine", "his
+      // and yours") or an adverb with no nominal after it ("is his alone .", not "his only
+      // son") stands alone: a
+      // determiner needs a nominal, and these cannot open one (common practice of English
+      // grammar; issue 13's Brown adjudication).
+      if (target == Target::his &&
+          (next_class == "pps" || next_class == "ppss" || next_class == "ppo" ||
+           (next_class == "cc" && after_class == "pp$$") ||
+           adverb_alone(*words_, next.text(), next_class, after_class))) {
+        return Decision{Decision::standalone, kRuleScore};
+      }
       if (target == Target::his && next_class == "in" &&
           !(words_->has(Set::adjective_preposition, next.text()) && nominal_class(after_class))) {
         return Decision{Decision::standalone, kRuleScore};
