@@ -11,6 +11,9 @@
 #include <map>
 #include <memory>
 #include <sstream>
+#include <string>
+#include <utility>
+#include <vector>
 
 #include "audit/json_writer.h"
 #include "audit/manifest.h"
@@ -21,6 +24,8 @@ namespace evenhand::cli {
 
 namespace {
 
+struct JMember;
+
 // A JSON value with members kept in document order.
 struct JVal {
   enum Kind { null, boolean, integer, real, string, array, object } kind = null;
@@ -29,15 +34,26 @@ struct JVal {
   double d = 0;
   std::string s;
   std::vector<JVal> items;
-  std::vector<std::pair<std::string, JVal>> members;
+  // A vector of a type still incomplete here (allowed since C++17); a std::pair of JVal
+  // would need JVal complete, which clang with libstdc++ refuses.
+  std::vector<JMember> members;
 
-  JVal* find(const std::string& k) {
-    for (auto& m : members)
-      if (m.first == k) return &m.second;
-    return nullptr;
-  }
+  JVal* find(const std::string& k);
   const JVal* find(const std::string& k) const { return const_cast<JVal*>(this)->find(k); }
 };
+
+// One member of an object: its key and value.
+struct JMember {
+  JMember(std::string k, JVal v) : first(std::move(k)), second(std::move(v)) {}
+  std::string first;
+  JVal second;
+};
+
+JVal* JVal::find(const std::string& k) {
+  for (auto& m : members)
+    if (m.first == k) return &m.second;
+  return nullptr;
+}
 
 JVal from_dom(simdjson::dom::element e) {
   JVal v;
