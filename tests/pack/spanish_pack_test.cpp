@@ -107,27 +107,14 @@ TEST_CASE("the built-in es-gender pack is the rules/es-gender folder", "[pack][s
 TEST_CASE("basic Spanish gender pairs map in both directions", "[pack][spanish]") {
   // source: Real Academia Española, Nueva gramática de la lengua española (gender of nouns,
   // pronouns and determiners), from memory.
-  const std::vector<std::pair<std::string, std::string>> pairs = {{"ella", "él"},
-                                                                  {"ellas", "ellos"},
-                                                                  {"nosotras", "nosotros"},
-                                                                  {"mujer", "hombre"},
-                                                                  {"madre", "padre"},
-                                                                  {"hija", "hijo"},
-                                                                  {"niña", "niño"},
-                                                                  {"hermana", "hermano"},
-                                                                  {"abuela", "abuelo"},
-                                                                  {"nuera", "yerno"},
-                                                                  {"reina", "rey"},
-                                                                  {"actriz", "actor"},
-                                                                  {"emperatriz", "emperador"},
-                                                                  {"heroína", "héroe"},
-                                                                  {"profesora", "profesor"},
-                                                                  {"campeona", "campeón"},
-                                                                  {"jefa", "jefe"},
-                                                                  {"de la", "del"},
-                                                                  {"a la", "al"},
-                                                                  {"esta", "este"},
-                                                                  {"aquellas", "aquellos"}};
+  const std::vector<std::pair<std::string, std::string>> pairs = {
+      {"ella", "él"},         {"ellas", "ellos"},        {"nosotras", "nosotros"},
+      {"madre", "padre"},     {"hija", "hijo"},          {"niña", "niño"},
+      {"hermana", "hermano"}, {"abuela", "abuelo"},      {"nuera", "yerno"},
+      {"reina", "rey"},       {"actriz", "actor"},       {"emperatriz", "emperador"},
+      {"heroína", "héroe"},   {"profesora", "profesor"}, {"campeona", "campeón"},
+      {"jefa", "jefe"},       {"de la", "del"},          {"a la", "al"},
+      {"esta", "este"},       {"aquellas", "aquellos"}};
   auto p = spanish();
   uint16_t f = *p->group_index("female"), m = *p->group_index("male");
   for (const auto& [fw, mw] : pairs) {
@@ -145,6 +132,12 @@ TEST_CASE("basic Spanish gender pairs map in both directions", "[pack][spanish]"
   // "la" is article and clitic; the tag chooses the counterpart.
   CHECK(counterparts(*p, "la", f, m) ==
         std::set<std::pair<std::string, Tag>>{{"el", Tag::det}, {"lo", Tag::obj}});
+  // "mujer" is a woman ("hombre") and, after a possessive, a wife ("marido": Real Academia
+  // Española, Diccionario de la lengua española, "mujer", from memory); the tag chooses.
+  CHECK(counterparts(*p, "mujer", f, m) ==
+        std::set<std::pair<std::string, Tag>>{{"hombre", Tag::noun}, {"marido", Tag::poss}});
+  CHECK(counterparts(*p, "hombre", m, f) ==
+        std::set<std::pair<std::string, Tag>>{{"mujer", Tag::noun}});
   // Apocope: "alguna" is "algún" before a noun and "alguno" standing alone.
   CHECK(counterparts(*p, "alguna", f, m) ==
         std::set<std::pair<std::string, Tag>>{{"alg\xC3\xBAn", Tag::det}, {"alguno", Tag::poss}});

@@ -139,6 +139,12 @@ const Case kCases[] = {
     {"protected phrase", "La Madre Tierra es generosa.", "La Madre Tierra es generosa."},
     {"neuter lo", "Lo mejor es la música.", "Lo mejor es la música."},
     {"case carried over", "LA NIÑA ALTA", "EL NIÑO ALTO"},
+    // "mujer" after a possessive is a wife (Real Academia Española, Diccionario de la lengua
+    // española, "mujer"; from memory): its counterpart is "marido", elsewhere "hombre".
+    {"a wife after a possessive", "Llegó con su mujer.", "Llegó con su marido."},
+    {"wives after a possessive", "Sus mujeres son altas.", "Sus maridos son altos."},
+    {"the possessive agrees", "Es nuestra mujer.", "Es nuestro marido."},
+    {"a woman without a possessive", "La mujer es alta.", "El hombre es alto."},
 };
 
 }  // namespace

@@ -128,15 +128,16 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
       genders = true;
       continue;
     }
-    uint8_t role = kind == "det"           ? kDet
-                   : kind == "article"     ? (kDet | kArticle)
-                   : kind == "contraction" ? (kDet | kArticle | kContraction)
-                   : kind == "after"       ? kAfter
-                   : kind == "clitic"      ? kClitic
-                   : kind == "inert"       ? kInert
-                   : kind == "alone"       ? kAlone
-                   : kind == "pronoun"     ? kPronoun
-                                           : 0;
+    uint16_t role = kind == "det"           ? kDet
+                    : kind == "article"     ? (kDet | kArticle)
+                    : kind == "contraction" ? (kDet | kArticle | kContraction)
+                    : kind == "after"       ? kAfter
+                    : kind == "clitic"      ? kClitic
+                    : kind == "inert"       ? kInert
+                    : kind == "alone"       ? kAlone
+                    : kind == "pronoun"     ? kPronoun
+                    : kind == "possessed"   ? kPossessed
+                                            : 0;
     if (role) {
       if (d.f.size() != 3) return err(kind + " takes a female and a male form");
       std::string fem = d.f[1] == "-" ? "" : d.f[1], masc = d.f[2] == "-" ? "" : d.f[2];
@@ -153,13 +154,14 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
       if (!found) return err("no set '" + fem + " | " + masc + "' in the pack");
       continue;
     }
-    Map<bool>* list = kind == "fixed"    ? &t->fixed_
-                      : kind == "copula" ? &t->copula_
-                      : kind == "adverb" ? &t->adverb_
-                      : kind == "verb"   ? &t->verb_
-                      : kind == "neuter" ? &t->neuter_
-                      : kind == "word"   ? &t->word_
-                                         : nullptr;
+    Map<bool>* list = kind == "fixed"        ? &t->fixed_
+                      : kind == "copula"     ? &t->copula_
+                      : kind == "adverb"     ? &t->adverb_
+                      : kind == "verb"       ? &t->verb_
+                      : kind == "neuter"     ? &t->neuter_
+                      : kind == "word"       ? &t->word_
+                      : kind == "possessive" ? &t->possessive_
+                                             : nullptr;
     if (!list) return err("unknown entry kind '" + kind + "'");
     if (d.f.size() < 2) return err(kind + " needs at least one word");
     for (size_t i = 1; i < d.f.size(); ++i) (*list)[d.f[i]] = true;
@@ -411,7 +413,7 @@ struct NounPhraseAgreement::Worker {
     return m;
   }
   // The dependent set with role `role` among the single-word sets at k, or null.
-  const pack::LexEntry* dependent(size_t k, uint8_t role) const {
+  const pack::LexEntry* dependent(size_t k, uint16_t role) const {
     if (!word(k)) return nullptr;
     const auto* list = pk.lookup(fold(k));
     if (!list) return nullptr;
@@ -801,6 +803,7 @@ struct NounPhraseAgreement::Worker {
           if (!person) person = e;
         }
       }
+      if (person && one_group) person = sense_of(k, m);
       if (person) {
         if (is_protected(k)) {
           ++out.protected_spans;
@@ -830,6 +833,21 @@ struct NounPhraseAgreement::Worker {
     std::sort(edits.begin(), edits.end(),
               [](const Edit& a, const Edit& b) { return a.begin < b.begin; });
     for (auto& e : edits) out.edits.push_back(std::move(e));
+  }
+
+  // The person entry of match m at k: a set with the possessed role ("mujer | marido") right
+  // after a possessive determiner ("su mujer"), another person set elsewhere ("la mujer").
+  const pack::LexEntry* sense_of(size_t k, const SetMatch& m) const {
+    const pack::LexEntry *plain = nullptr, *possessed = nullptr;
+    for (const auto* e : m.entries) {
+      if (!e->is_name && (t.set_roles_[e->set] & kPossessed))
+        possessed = possessed ? possessed : e;
+      else if (e->is_name || t.person_set(e->set))
+        plain = plain ? plain : e;
+    }
+    bool after_possessive = k > 0 && word(k - 1) && t.in(t.possessive_, fold(k - 1));
+    if (possessed && (after_possessive || !plain)) return possessed;
+    return plain;
   }
 
   void person_noun(size_t k, size_t len, const pack::LexEntry& en) {

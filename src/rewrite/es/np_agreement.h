@@ -127,18 +127,19 @@ class NounPhraseAgreement {
   template <class V>
   using Map = std::unordered_map<std::string, V, Hash, std::equal_to<>>;
 
-  enum Role : uint8_t {
+  enum Role : uint16_t {
     kDet = 1,
     kArticle = 2,
     kContraction = 4,
     kAfter = 8,
     kClitic = 16,
     kInert = 32,
-    kPronoun = 64,  // a person word, not a dependent
-    kAlone = 128,   // stands for its noun ("alguna de ellas")
+    kPronoun = 64,     // a person word, not a dependent
+    kAlone = 128,      // stands for its noun ("alguna de ellas")
+    kPossessed = 256,  // a person word's sense after a possessive ("su mujer": his wife)
   };
   // True when set `s` is a person word (no dependent role).
-  bool person_set(uint32_t s) const { return (set_roles_[s] & ~kPronoun) == 0; }
+  bool person_set(uint32_t s) const { return (set_roles_[s] & ~(kPronoun | kPossessed)) == 0; }
   enum Slot : uint8_t { m_sg = 0, f_sg = 1, m_pl = 2, f_pl = 3 };
   struct Adjective {
     std::array<std::string, 4> forms;  // by Slot
@@ -165,14 +166,14 @@ class NounPhraseAgreement {
   bool in(const Map<bool>& m, std::string_view w) const { return m.find(w) != m.end(); }
 
   uint16_t fem_group_ = 0, masc_group_ = 1;
-  std::vector<uint8_t> set_roles_;  // by pack set index
+  std::vector<uint16_t> set_roles_;  // by pack set index
   std::vector<Adjective> adjectives_;
   Map<AdjForm> adj_forms_;
   std::vector<Rule> rules_;
   std::vector<std::string> invariable_endings_;
   Map<Noun> nouns_;
   Map<bool> stressed_a_;  // feminine stressed-a nouns, singular forms
-  Map<bool> fixed_, copula_, adverb_, verb_, neuter_, word_;
+  Map<bool> fixed_, copula_, adverb_, verb_, neuter_, word_, possessive_;
   std::shared_ptr<const pack::CompiledPack> pack_;  // the pack it was read from
 };
 
