@@ -137,6 +137,7 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
                     : kind == "alone"       ? kAlone
                     : kind == "pronoun"     ? kPronoun
                     : kind == "possessed"   ? kPossessed
+                    : kind == "title"       ? kTitle
                                             : 0;
     if (role) {
       if (d.f.size() != 3) return err(kind + " takes a female and a male form");
@@ -814,6 +815,7 @@ struct NounPhraseAgreement::Worker {
           ++out.ambiguous;
           continue;
         }
+        if (title_alone(k, m.len, *person)) continue;
         person_noun(k, m.len, *person);
         continue;
       }
@@ -833,6 +835,24 @@ struct NounPhraseAgreement::Worker {
     std::sort(edits.begin(), edits.end(),
               [](const Edit& a, const Edit& b) { return a.begin < b.begin; });
     for (auto& e : edits) out.edits.push_back(std::move(e));
+  }
+
+  // Whether the title of address at k..k+len-1 is no person to rewrite here: a title names a
+  // person only before a capitalised word ("don Luis"; "un don" is a gift), and when that
+  // word is no first name of the pack, the title cannot change without the name: the record
+  // is flagged (unswappable_person) rather than written as "doña Luis".
+  bool title_alone(size_t k, size_t len, const pack::LexEntry& en) {
+    if (en.is_name || !(t.set_roles_[en.set] & kTitle)) return false;
+    size_t j = k + len;
+    if (!word(j)) return true;
+    auto pat = text::case_pattern(raw(j));
+    if (pat != text::CasePattern::title && pat != text::CasePattern::upper) return true;
+    for (const auto* e : match(j).entries)
+      if (e->is_name) return false;
+    if (!in.guarded && in.target[en.group] != en.group)
+      flag("unswappable_person", "'" + std::string(raw(k)) + " " + std::string(raw(j)) +
+                                     "': a title before a name the pack cannot swap");
+    return true;
   }
 
   // The person entry of match m at k: a set with the possessed role ("mujer | marido") right

@@ -137,9 +137,12 @@ class NounPhraseAgreement {
     kPronoun = 64,     // a person word, not a dependent
     kAlone = 128,      // stands for its noun ("alguna de ellas")
     kPossessed = 256,  // a person word's sense after a possessive ("su mujer": his wife)
+    kTitle = 512,      // a title of address: a person only before a name ("don Luis")
   };
   // True when set `s` is a person word (no dependent role).
-  bool person_set(uint32_t s) const { return (set_roles_[s] & ~(kPronoun | kPossessed)) == 0; }
+  bool person_set(uint32_t s) const {
+    return (set_roles_[s] & ~(kPronoun | kPossessed | kTitle)) == 0;
+  }
   enum Slot : uint8_t { m_sg = 0, f_sg = 1, m_pl = 2, f_pl = 3 };
   struct Adjective {
     std::array<std::string, 4> forms;  // by Slot
