@@ -150,6 +150,14 @@ const Case kCases[] = {
     // change with it: flagged, not "doña Luis".
     {"don the gift", "Tiene un don para la música y ella lo sabe.",
      "Tiene un don para la música y él lo sabe."},
+    // A pronoun after a preposition refers to the nearest noun phrase of its gender and number
+    // (Nueva gramática, personal pronouns with prepositions; from memory).
+    {"a pronoun of a thing stays", "Compraron la casa para vivir en ella con mi madre.",
+     "Compraron la casa para vivir en ella con mi padre."},
+    {"a pronoun of a person follows", "Vi a mi hermana y hablé con ella.",
+     "Vi a mi hermano y hablé con él."},
+    {"a pronoun of a person or a thing", "Mi hermana llegó; la casa era de ella.",
+     "Mi hermano llegó; la casa era de ella.", "unsettled_pronoun"},
     {"a title before a name the pack lacks", "Vino don Luis y ella.", "Vino don Luis y él.",
      "unswappable_person"},
 };

@@ -155,14 +155,15 @@ Result<std::shared_ptr<const NounPhraseAgreement>> NounPhraseAgreement::from_pac
       if (!found) return err("no set '" + fem + " | " + masc + "' in the pack");
       continue;
     }
-    Map<bool>* list = kind == "fixed"        ? &t->fixed_
-                      : kind == "copula"     ? &t->copula_
-                      : kind == "adverb"     ? &t->adverb_
-                      : kind == "verb"       ? &t->verb_
-                      : kind == "neuter"     ? &t->neuter_
-                      : kind == "word"       ? &t->word_
-                      : kind == "possessive" ? &t->possessive_
-                                             : nullptr;
+    Map<bool>* list = kind == "fixed"         ? &t->fixed_
+                      : kind == "copula"      ? &t->copula_
+                      : kind == "adverb"      ? &t->adverb_
+                      : kind == "verb"        ? &t->verb_
+                      : kind == "neuter"      ? &t->neuter_
+                      : kind == "word"        ? &t->word_
+                      : kind == "possessive"  ? &t->possessive_
+                      : kind == "preposition" ? &t->preposition_
+                                              : nullptr;
     if (!list) return err("unknown entry kind '" + kind + "'");
     if (d.f.size() < 2) return err(kind + " needs at least one word");
     for (size_t i = 1; i < d.f.size(); ++i) (*list)[d.f[i]] = true;
@@ -815,7 +816,7 @@ struct NounPhraseAgreement::Worker {
           ++out.ambiguous;
           continue;
         }
-        if (title_alone(k, m.len, *person)) continue;
+        if (title_alone(k, m.len, *person) || pronoun_of_thing(k, *person)) continue;
         person_noun(k, m.len, *person);
         continue;
       }
@@ -852,6 +853,26 @@ struct NounPhraseAgreement::Worker {
     if (!in.guarded && in.target[en.group] != en.group)
       flag("unswappable_person", "'" + std::string(raw(k)) + " " + std::string(raw(j)) +
                                      "': a title before a name the pack cannot swap");
+    return true;
+  }
+
+  // Whether the pronoun at k, after a preposition, refers to a thing: the nearest earlier
+  // noun phrase of its gender and number is no person ("la casa ... vivir en ella").
+  // When a rewritten person of that gender came before the thing, the pronoun may refer to
+  // either ("mi hermana llegó; la casa era de ella"): the record is flagged
+  // (unsettled_pronoun) and the pronoun stays.
+  bool pronoun_of_thing(size_t k, const pack::LexEntry& en) {
+    if (en.is_name || !(t.set_roles_[en.set] & kPronoun)) return false;
+    if (k == 0 || !word(k - 1) || !t.in(t.preposition_, fold(k - 1))) return false;
+    auto g = gender_of(en.group);
+    if (!g) return false;
+    int gi = *g == Gender::feminine ? 0 : 1, ni = plural_form(fold(k)) ? 1 : 0;
+    if (last[gi][ni] != -2) return false;
+    if (last_person[gi][ni] >= 0) {
+      const Person& p = persons[static_cast<size_t>(last_person[gi][ni])];
+      flag("unsettled_pronoun", "'" + std::string(raw(k)) + "' may refer to '" + p.from_word +
+                                    "' or to a later noun of the same gender");
+    }
     return true;
   }
 

@@ -176,7 +176,7 @@ class NounPhraseAgreement {
   std::vector<std::string> invariable_endings_;
   Map<Noun> nouns_;
   Map<bool> stressed_a_;  // feminine stressed-a nouns, singular forms
-  Map<bool> fixed_, copula_, adverb_, verb_, neuter_, word_, possessive_;
+  Map<bool> fixed_, copula_, adverb_, verb_, neuter_, word_, possessive_, preposition_;
   std::shared_ptr<const pack::CompiledPack> pack_;  // the pack it was read from
 };
 
