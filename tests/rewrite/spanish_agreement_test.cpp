@@ -181,6 +181,18 @@ TEST_CASE("Spanish rewrites keep the noun phrase in agreement", "[rewrite][spani
   CHECK(n >= 40);
 }
 
+TEST_CASE("a Spanish descriptor of a person named in an attribution line is flagged",
+          "[rewrite][spanish]") {
+  Rewriter rw;
+  // source: Debian fortunes-es 1.36, file familia (tests/external/real-text-es).
+  rw("Los que no tienen hijos ignoran muchos placeres, pero también se evitan\nmuchos "
+     "dolores.\n\t\t-- Honorato de Balzac. (1799-1850) Escritor francés. ");
+  CHECK(rw.flagged("unswappable_person"));
+  // The same noun outside an attribution line is rewritten, with no flag (invented line).
+  CHECK(rw("Un escritor francés llegó.") == "Una escritora francesa llegó.");
+  CHECK(rw.result.flags.empty());
+}
+
 TEST_CASE("Spanish rewrites go back to the original", "[rewrite][spanish]") {
   Rewriter rw;
   for (const auto& c : kCases) {

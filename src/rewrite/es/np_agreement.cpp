@@ -816,7 +816,9 @@ struct NounPhraseAgreement::Worker {
           ++out.ambiguous;
           continue;
         }
-        if (title_alone(k, m.len, *person) || pronoun_of_thing(k, *person)) continue;
+        if (title_alone(k, m.len, *person) || pronoun_of_thing(k, *person) ||
+            describes_named(k, *person))
+          continue;
         person_noun(k, m.len, *person);
         continue;
       }
@@ -873,6 +875,38 @@ struct NounPhraseAgreement::Worker {
       flag("unsettled_pronoun", "'" + std::string(raw(k)) + "' may refer to '" + p.from_word +
                                     "' or to a later noun of the same gender");
     }
+    return true;
+  }
+
+  // Whether the person noun at k stands in an attribution line ("-- Honorato de Balzac.
+  // (1799-1850) Escritor francés."): a line that opens with a dash and a capitalised word
+  // names a person, and a person noun on it describes that person. The pack has no Spanish
+  // first names, so the name cannot change with the noun: the record is flagged
+  // (unswappable_person) rather than written as "Escritora" beside a man's name.
+  bool describes_named(size_t k, const pack::LexEntry& en) {
+    if (en.is_name || (t.set_roles_[en.set] & kPronoun)) return false;
+    std::string_view text = in.text;
+    size_t at = in.tokens[k].begin;
+    size_t line = text.rfind('\n', at == 0 ? 0 : at - 1);
+    line = line == std::string_view::npos || at == 0 ? 0 : line + 1;
+    std::string_view rest = text.substr(line, at - line);
+    size_t i = rest.find_first_not_of(" \t");
+    if (i == std::string_view::npos) return false;
+    rest.remove_prefix(i);
+    size_t dash = rest.starts_with("--")       ? 2
+                  : rest.starts_with("\u2014") ? 3  // em dash
+                  : rest.starts_with("\u2015") ? 3  // horizontal bar
+                                               : 0;
+    if (dash == 0) return false;
+    rest.remove_prefix(dash);
+    i = rest.find_first_not_of(" \t");
+    if (i == std::string_view::npos) return false;
+    std::string_view first = rest.substr(i, rest.find_first_of(" \t.,(", i) - i);
+    auto pat = text::case_pattern(first);
+    if (pat != text::CasePattern::title && pat != text::CasePattern::upper) return false;
+    if (!in.guarded && in.target[en.group] != en.group)
+      flag("unswappable_person", "'" + std::string(raw(k)) + "' describes '" + std::string(first) +
+                                     "', named in an attribution line");
     return true;
   }
 

@@ -33,8 +33,11 @@ _spec.loader.exec_module(neutral_score)  # score_half
 # fails; one record is 1.5 (dev) and 1.4 (held-out) points, so the floors allow two more wrong
 # records per half, not more. Raise them as the engine improves. The goal (held-out
 # records >= 90%) is far from reached, and the floor is not the goal.
-FLOORS = {"dev": {"records": 0.23, "edit_precision": 0.17},
-          "held": {"records": 0.27, "edit_precision": 0.31}}
+# Raised after the first Spanish rules (wife after a possessive, titles, pronouns of things,
+# descriptors on attribution lines, tuned on the development half only): dev 55.2% (37/67) /
+# 31.3% (21/67 edits), held-out 52.8% (38/72) / 53.6% (45/84), again two records below.
+FLOORS = {"dev": {"records": 0.52, "edit_precision": 0.25},
+          "held": {"records": 0.50, "edit_precision": 0.48}}
 
 
 def run_engine(binary, work):
