@@ -325,7 +325,8 @@ void window_label(const std::string& pointer, const EditWindow* w, const Termina
   out += '\n';
 }
 
-// One side of a window as cells: the statement of the cut before, the pieces, the cut after.
+// One side of a window as cells: the statement of the cut before, the pieces, the cut after
+// (the statements are kept in `notes`, which the cells point into).
 std::vector<Cell> window_cells(std::string_view text, const EditWindow& w,
                                const TerminalStyle& style, bool left, std::string notes[2]) {
   std::vector<Cell> cells;
@@ -360,8 +361,9 @@ void draw_window(std::string_view text, const EditWindow& w, const TerminalStyle
     return;
   }
   size_t col = (width - 7) / 2;
+  std::string right_notes[2];  // the cells point into the notes: one pair per side
   auto l = wrap(window_cells(text, w, style, true, notes), col);
-  auto rr = wrap(window_cells(text, w, style, false, notes), col);
+  auto rr = wrap(window_cells(text, w, style, false, right_notes), col);
   for (size_t i = 0; i < std::max(l.size(), rr.size()); ++i) {
     out += "    ";
     draw(i < l.size() ? l[i] : std::vector<Cell>{}, style.color, col, out);
