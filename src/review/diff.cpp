@@ -68,6 +68,19 @@ size_t window_end(std::string_view t, size_t end, size_t words, size_t cap) {
   return i;
 }
 
+size_t word_count(std::string_view s) {
+  size_t n = 0;
+  for (size_t i = 0; i < s.size(); ++i)
+    if (!is_space(s[i]) && (i == 0 || is_space(s[i - 1]))) ++n;
+  return n;
+}
+
+// A gap between two windows is shown rather than cut when it holds no more words than a
+// window's side (a new window costs a line) or is no longer than its statement.
+bool not_worth_a_cut(std::string_view gap, size_t words) {
+  return word_count(gap) <= words || gap.size() <= cut_statement(gap).size();
+}
+
 // The pieces of `all` (diff_pieces of `text`) inside [b, e); kept text is trimmed to it.
 std::vector<Piece> slice(const std::vector<Piece>& all, std::string_view text, size_t b, size_t e) {
   std::vector<Piece> out;
@@ -236,8 +249,7 @@ std::vector<EditWindow> edit_windows(std::string_view text, const std::vector<Lo
     size_t en = window_end(text, e->at + e->len, words, cap);
     if (!out.empty()) {
       EditWindow& last = out.back();
-      if (b <= last.end ||
-          b - last.end <= cut_statement(text.substr(last.end, b - last.end)).size()) {
+      if (b <= last.end || not_worth_a_cut(text.substr(last.end, b - last.end), words)) {
         last.begin = std::min(last.begin, b);
         last.end = std::max(last.end, en);
         last.edits.push_back(e);
@@ -273,9 +285,7 @@ EditWindow whole_window(std::string_view text, const std::vector<LoggedEdit>& ed
 }
 
 std::string cut_statement(std::string_view left_out) {
-  size_t words = 0;
-  for (size_t i = 0; i < left_out.size(); ++i)
-    if (!is_space(left_out[i]) && (i == 0 || is_space(left_out[i - 1]))) ++words;
+  size_t words = word_count(left_out);
   return "\u27e8" + std::to_string(words) + (words == 1 ? " word, " : " words, ") +
          std::to_string(left_out.size()) + (left_out.size() == 1 ? " byte" : " bytes") +
          " not shown\u27e9";
