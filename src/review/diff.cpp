@@ -75,10 +75,11 @@ size_t word_count(std::string_view s) {
   return n;
 }
 
-// A gap between two windows is shown rather than cut when it holds no more words than a
-// window's side (a new window costs a line) or is no longer than its statement.
+// A gap between two windows is shown rather than cut when it is no larger than a window's
+// side (a new window costs a line) or no longer than its statement.
 bool not_worth_a_cut(std::string_view gap, size_t words) {
-  return word_count(gap) <= words || gap.size() <= cut_statement(gap).size();
+  if (word_count(gap) <= words && gap.size() <= words * kWindowBytesPerWord) return true;
+  return gap.size() <= cut_statement(gap).size();
 }
 
 // The pieces of `all` (diff_pieces of `text`) inside [b, e); kept text is trimmed to it.

@@ -46,9 +46,9 @@ inline constexpr size_t kWindowBytesPerWord = 16;
 // The windows of `field` in `text`, in order: each edit (as diff_pieces() keeps them) with
 // `words` words each side (white-space separated), stopping early after a clause mark
 // (. ; : ! ? before white space) or at a line break, and within `words` * kWindowBytesPerWord
-// bytes (then at a code point boundary). Windows whose gap holds at most `words` words are
-// merged, and no cut is shorter than its statement would be (such gaps and ends of the field
-// are shown). Empty when the field has no edit.
+// bytes (then at a code point boundary). Windows whose gap holds at most `words` words (and
+// bytes as above) are merged, and no cut is shorter than its statement would be (such gaps and ends
+// of the field are shown). Empty when the field has no edit.
 std::vector<EditWindow> edit_windows(std::string_view text, const std::vector<LoggedEdit>& edits,
                                      const std::string& field, size_t words);
 

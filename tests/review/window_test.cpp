@@ -123,6 +123,19 @@ TEST_CASE("window: text without spaces is cut at a code point, never inside one"
         "\u27e81 word, 168 bytes not shown\u27e9");
 }
 
+TEST_CASE("window: two edits far apart in text without spaces keep two windows") {
+  // Invented: one word of 300 three-byte letters around two edits.
+  std::string e3;
+  for (int i = 0; i < 100; ++i) e3 += "\u20ac";
+  std::string text = e3 + "she" + e3 + "her" + e3;
+  auto ws =
+      review::edit_windows(text, {edit(text, "she", "he"), edit(text, "her", "his")}, "/text", 2);
+  REQUIRE(ws.size() == 2);
+  CHECK(ws[1].cut_before > 0);
+  CHECK(review::cut_statement(text.substr(ws[0].end, ws[1].cut_before)).find("\u27e81 word, ") ==
+        0);
+}
+
 TEST_CASE("window: the terminal shows the pointer, the offsets and the cuts; whole shows all") {
   review::ReviewRecord r;
   r.input = "c.jsonl";
