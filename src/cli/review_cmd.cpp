@@ -21,6 +21,9 @@ namespace evenhand::cli {
 
 namespace {
 
+// The most words of context each side of an edit (--context).
+constexpr size_t kMaxContext = 200;
+
 size_t terminal_width(bool tty) {
   if (const char* c = std::getenv("COLUMNS")) {
     long v = std::strtol(c, nullptr, 10);
@@ -58,8 +61,8 @@ int corpus_layout(const std::string& command, const review::ManifestView* m,
 int review_command(const std::vector<std::string>& args) {
   po::options_description opts("Options");
   std::string edits, manifest, format, root, stdin_corpus, layout_name = "inline", color = "auto";
-  bool paragraphs = false, no_rules = false;
-  size_t sample = 0, width = 0;
+  bool paragraphs = false, no_rules = false, whole = false;
+  size_t sample = 0, width = 0, context = review::kWindowWords;
   uint64_t seed = 0;
   review::Filter filter;
   // clang-format off
@@ -81,6 +84,8 @@ int review_command(const std::vector<std::string>& args) {
     ("layout", po::value(&layout_name)->value_name("inline|columns"), "inline (default) or columns: original | counterfactual")
     ("color", po::value(&color)->value_name("auto|always|never"), "auto (default: on a terminal unless NO_COLOR is set), always, never")
     ("width", whole_number("--width", &width, 20, 1000), "line width, 20 to 1000 (default: $COLUMNS, else the terminal's, else 100)")
+    ("context", whole_number("--context", &context, 0, kMaxContext), "words shown each side of an edit, 0 to 200 (default 8; fewer at a clause end or line break)")
+    ("whole", po::bool_switch(&whole), "show every edited field whole, not windows around its edits")
     ("no-rules", po::bool_switch(&no_rules), "do not list the edits and their rules under each record");
   // clang-format on
   po::positional_options_description pos;
@@ -105,6 +110,10 @@ int review_command(const std::vector<std::string>& args) {
   }
   if (layout_name != "inline" && layout_name != "columns") {
     print_error("review: --layout must be inline or columns");
+    return kUsage;
+  }
+  if (whole && vm.count("context")) {
+    print_error("review: --context sets the windows that --whole replaces; give one of them");
     return kUsage;
   }
   if (color != "auto" && color != "always" && color != "never") {
@@ -143,6 +152,8 @@ int review_command(const std::vector<std::string>& args) {
   style.columns = layout_name == "columns";
   style.width = width ? width : terminal_width(tty);
   style.show_rules = !no_rules;
+  style.whole = whole;
+  style.context_words = context;
 
   // Pass 2 prints the records (all matching ones a batch at a time, or the sample) with
   // their corpus text; memory is one batch or the sampler's candidates.

@@ -309,16 +309,33 @@ std::string association_chart(const AssociationReport& a, const std::vector<size
   return s;
 }
 
+// A field as review shows it by default: per window around its edits, a line with the
+// pointer and the edits' logged offsets, then the text between the statements of the cuts.
 std::string field_html(const ReviewRecord& r, const FieldText& f) {
   std::string s;
-  for (const auto& p : diff_pieces(f.text, r.edits, f.pointer)) {
-    if (p.kind == Piece::same) {
-      s += esc(p.text);
-    } else if (p.kind == Piece::removed) {
-      s += "<del title=\"" + esc(p.edit->why + " " + p.edit->rule) + "\">" + esc(p.text) + "</del>";
-    } else {
-      s += "<ins title=\"" + esc(p.edit->why + " " + p.edit->rule) + "\">" + esc(p.text) + "</ins>";
+  auto cut = [&](size_t at, size_t n) {
+    return "<span class=\"cut\">" + esc(cut_statement(std::string_view(f.text).substr(at, n))) +
+           "</span>";
+  };
+  for (const auto& w : edit_windows(f.text, r.edits, f.pointer, kWindowWords)) {
+    std::string label = f.pointer;
+    for (const LoggedEdit* e : w.edits)
+      label += (label.empty() ? "@" : " @") + std::to_string(e->at);
+    s += "<div class=\"ptr\">" + esc(label) + "</div><div class=\"text\">";
+    if (w.cut_before) s += cut(w.begin - w.cut_before, w.cut_before) + " ";
+    for (const auto& p : w.pieces) {
+      if (p.kind == Piece::same) {
+        s += esc(p.text);
+      } else if (p.kind == Piece::removed) {
+        s += "<del title=\"" + esc(p.edit->why + " " + p.edit->rule) + "\">" + esc(p.text) +
+             "</del>";
+      } else {
+        s += "<ins title=\"" + esc(p.edit->why + " " + p.edit->rule) + "\">" + esc(p.text) +
+             "</ins>";
+      }
     }
+    if (w.cut_after) s += " " + cut(w.end, w.cut_after);
+    s += "</div>";
   }
   return s;
 }
@@ -368,6 +385,7 @@ td.hash{font-family:ui-monospace,"DejaVu Sans Mono",monospace;font-size:12px;wor
 .ptr{font-family:ui-monospace,"DejaVu Sans Mono",monospace;font-size:12px;color:var(--muted)}
 .text{white-space:pre-wrap;background:var(--paper);border-radius:6px;padding:8px 10px;margin:3px 0 6px}
 del{background:#fee2e2;color:#991b1b;text-decoration:line-through;border-radius:3px;padding:0 2px}
+.cut{color:var(--muted);font-style:italic}
 ins{background:#dcfce7;color:#166534;text-decoration:none;border-radius:3px;padding:0 2px;font-weight:600}
 ul.edits{margin:0;padding-left:18px;font-size:12.5px;color:var(--muted)}
 .cautions li{margin:6px 0}
@@ -595,10 +613,7 @@ std::string render_report(const ReportInput& in) {
   for (const auto* r : in.sample) {
     h += "<div class=\"rec\"><h3>" + esc(r->input) + ":" + std::to_string(r->line) + "<span>" +
          esc(r->action) + ", " + std::to_string(r->edits.size()) + " edits</span></h3>";
-    for (const auto& f : r->fields) {
-      if (!f.pointer.empty()) h += "<div class=\"ptr\">" + esc(f.pointer) + "</div>";
-      h += "<div class=\"text\">" + field_html(*r, f) + "</div>";
-    }
+    for (const auto& f : r->fields) h += field_html(*r, f);
     h += "<ul class=\"edits\">";
     for (const auto& e : r->edits) {
       h += "<li>" + esc(e.from) + " &#8594; " + esc(e.to) + " &middot; " + esc(e.why);

@@ -83,6 +83,8 @@ TEST_CASE("a bad numeric option is a usage error naming the option and its range
        "p.json", "--tolerance must be a number above 0 and below 1"},
       {review + " --sample -1", "-", "--sample must be a whole number from 0 to 1000000"},
       {review + " --width 3", "-", "--width must be a whole number from 20 to 1000"},
+      {review + " --context 201", "-", "--context must be a whole number from 0 to 200"},
+      {review + " --context -1", "-", "--context must be a whole number from 0 to 200"},
       {review + " --seed -1", "-", "--seed must be a whole number from 0"},
       {report + " --sample -1", "r.html", "--sample must be a whole number from 0 to 1000000"},
       {assoc + " --window 0", "a.json", "--window must be a whole number from 1 to 1000"},

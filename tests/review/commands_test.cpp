@@ -3,6 +3,7 @@
 // output, and the HTML page rendered by headless Chromium (Debian package chromium).
 #include <catch2/catch.hpp>
 
+#include <algorithm>
 #include <filesystem>
 #include <regex>
 
@@ -399,4 +400,48 @@ TEST_CASE(
   CHECK(copy.code == 0);
   CHECK(copy.out.find("\u00abShe\u2192He\u00bb thanked \u00abher\u2192his\u00bb") !=
         std::string::npos);
+}
+
+TEST_CASE("review: windows by default, --whole for whole fields, --context checked") {
+  TempDir d;
+  demo(d);
+  std::string log = d.file("edits.jsonl");
+  auto windows = run(d, "review " + log + " --width 200");
+  auto whole = run(d, "review " + log + " --whole --width 200");
+  REQUIRE(windows.code == 0);
+  REQUIRE(whole.code == 0);
+  // Whole fields state no cut; windows state theirs.
+  CHECK(whole.out.find("\u27e8") == std::string::npos);
+  CHECK(windows.out.find(" bytes not shown\u27e9") != std::string::npos);
+  // A window's line names the field and the logged offsets of its edits.
+  CHECK(windows.out.find("  /text @16 @46 @74 @122\n") != std::string::npos);
+  CHECK(whole.out.find("  /text\n") != std::string::npos);
+  // One word each side cuts the chair's notice (line 13) in two windows, the gap stated.
+  auto narrow = run(d, "review " + log + " --rule words.txt:300 --context 1 --width 200");
+  REQUIRE(narrow.code == 0);
+  CHECK(narrow.out.find("  /text @16 @46 @74\n") != std::string::npos);
+  CHECK(narrow.out.find("  /text @122\n    \u27e88 words, 34 bytes not shown\u27e9 thank "
+                        "\u00abher\u2192him\u00bb warmly.\n") != std::string::npos);
+  CHECK(narrow.out.find("will stay on as a ride leader, and we thank") == std::string::npos);
+  auto narrow_whole = run(d, "review " + log + " --rule words.txt:300 --whole --width 200");
+  CHECK(narrow_whole.out.find("will stay on as a ride leader, and we thank") != std::string::npos);
+  for (const char* bad : {"--context x", "--context 201", "--context -1", "--context ''"}) {
+    INFO(bad);
+    auto r = run(d, "review " + log + " " + bad);
+    CHECK(r.code == kUsage);
+    CHECK(r.err.find("evenhand: review: --context must be a whole number from 0 to 200") == 0);
+    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  }
+  auto both = run(d, "review " + log + " --whole --context 3");
+  CHECK(both.code == kUsage);
+  CHECK(both.err ==
+        "evenhand: review: --context sets the windows that --whole replaces; give one "
+        "of them\n");
+  // The report's sample shows the same windows and statements.
+  REQUIRE(run(d, "report --manifest " + d.file("m.json") + " --edits " + log +
+                     " --sample 300 --out " + d.file("r.html"))
+              .code == 0);
+  std::string page = read_file(d.file("r.html"));
+  CHECK(page.find("<div class=\"ptr\">/text @16 @46 @74 @122</div>") != std::string::npos);
+  CHECK(page.find(" bytes not shown\u27e9</span>") != std::string::npos);
 }
