@@ -136,7 +136,7 @@ TEST_CASE("window: two edits far apart in text without spaces keep two windows")
         0);
 }
 
-TEST_CASE("window: the terminal shows the pointer, the offsets and the cuts; whole shows all") {
+TEST_CASE("window: the terminal shows the pointer, the offsets and the cuts, and whole shows all") {
   review::ReviewRecord r;
   r.input = "c.jsonl";
   r.line = 1;
