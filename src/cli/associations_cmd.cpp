@@ -4,6 +4,7 @@
 #include <cmath>
 
 #include "cli/cli.h"
+#include "cli/command_options.h"
 #include "cli/common.h"
 #include "cli/corpus_args.h"
 #include "cli/pack_load.h"
@@ -14,32 +15,43 @@
 
 namespace evenhand::cli {
 
-int associations_command(const std::vector<std::string>& args) {
-  po::options_description opts("Options");
-  std::string pack_name, targets_path, out, format;
-  std::vector<std::string> before, after, fields, protect;
-  bool paragraphs = false;
-  review::AssociationOptions ao;
+void add_associations_options(po::options_description& opts, AssociationsArgs& a) {
+  review::AssociationOptions& ao = a.options;
   // clang-format off
   opts.add_options()
     ("help,h", "show this help")
-    ("pack", po::value(&pack_name)->value_name("PACK"), "rule pack whose groups are measured (built-in name or directory)")
-    ("in", po::value(&before)->value_name("PATH")->composing(), "the corpus before augmentation; repeatable")
-    ("after", po::value(&after)->value_name("PATH")->composing(), "the augmented corpus; repeatable (optional)")
-    ("field", po::value(&fields)->value_name("POINTER")->composing(), "JSON Pointer of a field to read (with '*'); repeatable; default /text")
-    ("format", po::value(&format)->value_name("jsonl|text"), "jsonl (default) or text")
-    ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
-    ("targets", po::value(&targets_path)->value_name("PATH"), "target word list (default: the pack's targets.data)")
-    ("window", whole_number("--window", &ao.window, 1, 1000), "context: words on either side of a group word, 1 to 1000 (default 10)")
-    ("prior", real_number("--prior", &ao.prior, {0, HUGE_VAL, true}), "alpha_0, total weight of the Dirichlet prior, above 0 (default 100)")
-    ("min-cooccurrences", whole_number("--min-cooccurrences", &ao.min_cooccurrences, 0, UINT64_MAX), "fewer co-occurrences of a target with two groups than this: 'too few' instead of a p-value, 0 to 2^64-1 (default 10)")
-    ("out", po::value(&out)->value_name("PATH"), "write the JSON here ('-' is stdout)");
+    ("pack", po::value(&a.pack_name)->value_name("PACK"), "rule pack whose groups are measured (built-in name or directory)")
+    ("in", po::value(&a.before)->value_name("PATH")->composing(), "the corpus before augmentation; repeatable")
+    ("after", po::value(&a.after)->value_name("PATH")->composing(), "the augmented corpus; repeatable (optional)");
+  // The fields a run reads unless told otherwise.
+  add_defaulted(opts, "field", po::value(&a.fields)->value_name("POINTER")->composing(), pipeline::RunOptions().fields,
+                "JSON Pointer of a field to read (with '*'); repeatable");
+  add_defaulted(opts, "format", po::value(&a.format)->value_name("jsonl|text"), a.format, "jsonl or text");
+  opts.add_options()
+    ("paragraphs", po::bool_switch(&a.paragraphs), "text records are blank-line separated paragraphs")
+    ("targets", po::value(&a.targets_path)->value_name("PATH"), "target word list (default: the pack's targets.data)");
+  add_defaulted(opts, "window", whole_number("--window", &ao.window, 1, 1000), ao.window,
+                "context: words on either side of a group word, 1 to 1000");
+  add_defaulted(opts, "prior", real_number("--prior", &ao.prior, {0, HUGE_VAL, true}), ao.prior,
+                "alpha_0, total weight of the Dirichlet prior, above 0");
+  add_defaulted(opts, "min-cooccurrences", whole_number("--min-cooccurrences", &ao.min_cooccurrences, 0, UINT64_MAX), ao.min_cooccurrences,
+                "fewer co-occurrences of a target with two groups than this: 'too few' instead of a p-value, 0 to 2^64-1");
+  opts.add_options()
+    ("out", po::value(&a.out)->value_name("PATH"), "write the JSON here ('-' is stdout)");
   // clang-format on
-  add_protect_option(opts, protect);
+  add_protect_option(opts, a.protect);
+}
+
+int associations_command(const std::vector<std::string>& args) {
+  po::options_description opts("Options");
+  AssociationsArgs a;
+  add_associations_options(opts, a);
+  const std::string &pack_name = a.pack_name, &targets_path = a.targets_path, &out = a.out;
+  const std::vector<std::string>&before = a.before, &after = a.after, &fields = a.fields,
+        &protect = a.protect;
+  const review::AssociationOptions& ao = a.options;
   po::variables_map vm;
-  int rc =
-      parse_args("associations", "--pack PACK --in CORPUS [--after AUGMENTED] --out ASSOC.json",
-                 opts, args, vm);
+  int rc = parse_args("associations", kAssociationsSynopsis, opts, args, vm);
   if (rc >= 0) return rc;
   if (pack_name.empty() || before.empty() || out.empty()) {
     print_error("associations: give --pack, --in and --out");
@@ -52,9 +64,8 @@ int associations_command(const std::vector<std::string>& args) {
   add_pack_input(ins, pack_name);
   rc = check_outputs("associations", ins, {{out, "--out"}});
   if (rc >= 0) return rc;
-  if (fields.empty()) fields = {"/text"};
   review::CorpusLayout layout;
-  rc = corpus_layout("associations", nullptr, format, paragraphs, "", layout);
+  rc = corpus_layout("associations", nullptr, a.format, a.paragraphs, "", layout);
   if (rc >= 0) return rc;
   std::vector<Error> problems;
   auto pk = load_full_pack(pack_name, problems);

@@ -44,6 +44,29 @@ int report(const Error& e) {
   return exit_code_for(e.kind);
 }
 
+std::string help_text(const std::string& command, const std::string& synopsis,
+                      const po::options_description& options) {
+  std::ostringstream os;
+  os << "Usage: evenhand " << command << " " << synopsis << "\n\n" << options << "\n";
+  return os.str();
+}
+
+std::string default_text(const std::string& value) {
+  return value;
+}
+
+std::string default_text(double value) {
+  char buf[32];
+  auto [end, ec] = std::to_chars(buf, buf + sizeof buf, value);
+  return ec == std::errc() ? std::string(buf, end) : std::string("?");
+}
+
+std::string default_text(const std::vector<std::string>& value) {
+  std::string out;
+  for (const auto& v : value) out += (out.empty() ? "" : ",") + v;
+  return out;
+}
+
 int parse_args(const std::string& command, const std::string& synopsis,
                const po::options_description& options, const std::vector<std::string>& args,
                po::variables_map& vm, const po::positional_options_description* positional) {
@@ -52,7 +75,7 @@ int parse_args(const std::string& command, const std::string& synopsis,
     if (positional) parser.positional(*positional);
     po::store(parser.run(), vm);
     if (vm.count("help")) {
-      std::cout << "Usage: evenhand " << command << " " << synopsis << "\n\n" << options << "\n";
+      std::cout << help_text(command, synopsis, options);
       return kOk;
     }
     po::notify(vm);

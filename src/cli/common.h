@@ -22,7 +22,11 @@ int report(const Error& e);
 // Exit code for an error kind.
 int exit_code_for(ErrorKind kind);
 
-// Parses `args` against `options`; prints help for --help. Returns -1 to continue, else the
+// The help of `command`: "Usage: evenhand COMMAND SYNOPSIS", a blank line, the options.
+std::string help_text(const std::string& command, const std::string& synopsis,
+                      const po::options_description& options);
+
+// Parses `args` against `options`; prints help_text for --help. Returns -1 to continue, else the
 // exit code to return right away (0 after --help, kUsage after a parse error).
 int parse_args(const std::string& command, const std::string& synopsis,
                const po::options_description& options, const std::vector<std::string>& args,
@@ -52,6 +56,36 @@ po::typed_value<std::string>* whole_number(const std::string& name, T* out,
     }
     *out = v;
   });
+}
+
+// A default value as help shows it: text as it is, numbers as the shortest text that reads
+// back to them, a list joined by ','.
+std::string default_text(const std::string& value);
+std::string default_text(double value);
+std::string default_text(const std::vector<std::string>& value);
+template <typename T>
+requires std::is_integral_v<T> std::string default_text(T value) {
+  return std::to_string(value);
+}
+
+// Adds option `name` with the value semantic `v` and the default `value`: the parser stores
+// `value` when the option is absent (po's default_value; for whole_number() and
+// real_number(), whose semantic takes text, the text of `value`, so their checks hold it
+// too), and help shows "WHAT (default TEXT)" or "WHAT (default TEXT: MEANING)" with TEXT
+// made from that same value by default_text(). Help never states a default any other way.
+template <typename T, typename V>
+void add_defaulted(po::options_description& opts, const char* name, po::typed_value<T>* v,
+                   const V& value, const std::string& what, const std::string& meaning = "") {
+  std::string text = default_text(value);
+  if constexpr (std::is_same_v<T, V>) {
+    v->default_value(value, "");  // "" hides po's own "(=...)"; the description shows it
+  } else {
+    static_assert(std::is_same_v<T, std::string>);
+    v->default_value(text, "");
+  }
+  opts.add_options()(
+      name, v,
+      (what + " (default " + text + (meaning.empty() ? "" : ": " + meaning) + ")").c_str());
 }
 
 // Largest --sample of review and report: the sample is held in memory.

@@ -46,29 +46,55 @@ bool parse_size(const std::string& s, size_t& out) {
   return true;
 }
 
-void add_corpus_options(po::options_description& opts, CorpusArgs& a) {
+std::string format_size(size_t n) {
+  for (auto [suffix, shift] : {std::pair{"G", 30}, {"M", 20}, {"K", 10}}) {
+    size_t unit = size_t{1} << shift;
+    if (n >= unit && n % unit == 0) return std::to_string(n / unit) + suffix;
+  }
+  return std::to_string(n);
+}
+
+void add_corpus_options(po::options_description& opts, CorpusArgs& a, CorpusUse use) {
   pipeline::RunOptions& ro = a.ro;
+  const bool rewrite = use == CorpusUse::rewrite;
   // clang-format off
   opts.add_options()
     ("help,h", "show this help")
     ("pack", po::value(&a.pack_name)->value_name("PACK"), "rule pack: a built-in name (see 'evenhand packs') or a directory")
-    ("in", po::value(&ro.inputs)->value_name("PATH")->composing(), "input file (plain, zstd or gzip; '-' is stdin); repeatable, read in order")
-    ("field", po::value(&a.fields)->value_name("POINTER")->composing(), "JSON Pointer of a string to rewrite, '*' matches every element or member; repeatable (default /text)")
-    ("format", po::value(&a.format)->value_name("jsonl|text"), "record format: jsonl or text (default jsonl)")
-    ("paragraphs", po::bool_switch(&a.paragraphs), "text: documents are separated by blank lines instead of one per line")
-    ("seed", whole_number("--seed", &ro.seed, 0, UINT64_MAX), "seed for per-record decisions, 0 to 2^64-1 (default 0)")
-    ("id-field", po::value(&ro.id_pointer)->value_name("POINTER"), "JSON Pointer of a record's identity for per-record decisions (default: a hash of its raw bytes)")
-    ("threads", whole_number("--threads", &ro.threads, 0, pipeline::kMaxThreads), "worker threads, 0 to 256 (default 0: the machine's cores)")
-    ("on-bad-record", po::value(&a.on_bad)->value_name("fail|skip|quarantine"), "fail (default), skip, or quarantine (copy raw lines to --quarantine)")
+    ("in", po::value(&ro.inputs)->value_name("PATH")->composing(), "input file (plain, zstd or gzip; '-' is stdin); repeatable, read in order");
+  add_defaulted(opts, "field", po::value(&a.fields)->value_name("POINTER")->composing(), ro.fields,
+                std::string("JSON Pointer of a string to ") + (rewrite ? "rewrite" : "count mentions in") +
+                ", '*' matches every element or member; repeatable");
+  add_defaulted(opts, "format", po::value(&a.format)->value_name("jsonl|text"), a.format, "record format: jsonl or text");
+  opts.add_options()
+    ("paragraphs", po::bool_switch(&a.paragraphs), "text: documents are separated by blank lines instead of one per line");
+  if (rewrite) {
+    add_defaulted(opts, "seed", whole_number("--seed", &ro.seed, 0, UINT64_MAX), ro.seed, "seed for per-record decisions, 0 to 2^64-1");
+    opts.add_options()
+      ("id-field", po::value(&ro.id_pointer)->value_name("POINTER"), "JSON Pointer of a record's identity for per-record decisions (default: a hash of its raw bytes)");
+  }
+  add_defaulted(opts, "threads", whole_number("--threads", &ro.threads, 0, pipeline::kMaxThreads), ro.threads,
+                "worker threads, 0 to " + std::to_string(pipeline::kMaxThreads), "the machine's cores");
+  add_defaulted(opts, "on-bad-record", po::value(&a.on_bad)->value_name("fail|skip|quarantine"), a.on_bad,
+                "fail, skip, or quarantine (copy raw lines to --quarantine)");
+  opts.add_options()
     ("quarantine", po::value(&ro.quarantine_path)->value_name("PATH"), "file for rejected records' raw lines")
     ("rejects", po::value(&ro.rejects_path)->value_name("PATH"), "write one JSON line per rejected record (file, line, reason) here")
-    ("allow-unmatched-field", po::bool_switch(&ro.allow_unmatched_fields), "JSONL: finish even when a --field matched no value in the whole run (default: fail, exit 2)")
-    ("max-record-bytes", po::value(&a.max_bytes)->value_name("SIZE"), "reject records longer than this, 1 to 2G (default 16M; K, M, G suffixes)");
+    ("allow-unmatched-field", po::bool_switch(&ro.allow_unmatched_fields), "JSONL: finish even when a --field matched no value in the whole run (without it the run fails, exit 2)");
+  add_defaulted(opts, "max-record-bytes", po::value(&a.max_bytes)->value_name("SIZE"), format_size(ro.max_record_bytes),
+                "reject records longer than this, 1 to " + format_size(pipeline::kMaxRecordBytesLimit) + "; K, M, G suffixes");
   add_protect_option(opts, a.protect);
+  if (rewrite) {
+    opts.add_options()
+      ("toward", po::value(&a.toward)->value_name("GROUP"), "rewrite the other groups' forms toward this group only (e.g. neutral) (default: swap the pack's first two groups)")
+      ("themselves", po::bool_switch(&a.themselves), "English neutral: write 'themselves' instead of 'themself'");
+    add_defaulted(opts, "on-flagged", po::value(&a.on_flagged)->value_name("original|counterfactual|reject"), a.on_flagged,
+                  "a counterfactual whose agreement cannot be settled: original (write the original only), counterfactual (write it anyway, flagged in --provenance), reject (as a bad record)");
+  } else {
+    opts.add_options()
+      ("toward", po::value(&a.toward)->value_name("GROUP"), "count what rewriting the other groups' forms toward this group only would change as run --toward (default: swap the pack's first two groups)");
+  }
   opts.add_options()
-    ("toward", po::value(&a.toward)->value_name("GROUP"), "rewrite the other groups' forms toward this group only (e.g. neutral); default: swap the pack's first two groups")
-    ("themselves", po::bool_switch(&a.themselves), "English neutral: write 'themselves' instead of 'themself'")
-    ("on-flagged", po::value(&a.on_flagged)->value_name("original|counterfactual|reject"), "a counterfactual whose agreement cannot be settled: original (write the original only; default), counterfactual (write it anyway, flagged in --provenance), reject (as a bad record)")
     ("quiet,q", po::bool_switch(&a.quiet), "print nothing but errors");
   // clang-format on
 }

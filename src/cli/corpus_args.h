@@ -18,7 +18,7 @@ struct CorpusArgs {
   std::string pack_name;
   std::string format = "jsonl";
   std::string on_bad = "fail";
-  std::string max_bytes = "16M";
+  std::string max_bytes;  // --max-record-bytes as given; its default is ro's
   std::vector<std::string> fields;
   std::vector<std::string> protect;
   std::string toward;
@@ -32,8 +32,13 @@ struct CorpusArgs {
   std::unique_ptr<rewrite::Engine> engine;
 };
 
-// Adds the shared options to `opts`, bound to `a`.
-void add_corpus_options(po::options_description& opts, CorpusArgs& a);
+// What a command does with the corpus: run rewrites it; tally only counts mentions and what a
+// counterfactual would change, so it takes no option that only a rewrite reads (--seed,
+// --id-field, --themselves, --on-flagged).
+enum class CorpusUse { rewrite, count };
+
+// Adds the shared options for `use` to `opts`, bound to `a`; defaults are a's and a.ro's.
+void add_corpus_options(po::options_description& opts, CorpusArgs& a, CorpusUse use);
 
 // Adds --protect (user patterns of protected spans, rewrite::EngineOptions::protect_patterns),
 // bound to `patterns`: one of the shared options, also taken by `associations` so that it
@@ -60,5 +65,7 @@ std::vector<io::NamedPath> corpus_side_outputs(const CorpusArgs& a);
 
 // Parses "16M", "512K", "1G" or a plain byte count.
 bool parse_size(const std::string& s, size_t& out);
+// The shortest text parse_size reads back as `n` ("16M" for 16 MiB).
+std::string format_size(size_t n);
 
 }  // namespace evenhand::cli

@@ -4,26 +4,32 @@
 #include <iostream>
 
 #include "cli/cli.h"
+#include "cli/command_options.h"
 #include "cli/common.h"
 #include "pack/names_pairing.h"
 
 namespace evenhand::cli {
 
-int pair_names_command(const std::vector<std::string>& args) {
-  po::options_description opts("Options");
-  std::vector<std::string> groups;
-  std::string out = "-";
+void add_pair_names_options(po::options_description& opts, PairNamesArgs& a) {
   // clang-format off
   opts.add_options()
     ("help,h", "show this help")
-    ("group", po::value(&groups)->value_name("GROUP=FILE")->composing(),
+    ("group", po::value(&a.groups)->value_name("GROUP=FILE")->composing(),
      "GROUP=FILE: a group's names with counts, one 'NAME<TAB or comma>COUNT' per line "
-     "(a header line is allowed); give one per group, in the pack's group order")
-    ("out,o", po::value(&out)->value_name("PATH"), "write the [names] section here (default '-': stdout)");
+     "(a header line is allowed); give one per group, in the pack's group order");
   // clang-format on
+  add_defaulted(opts, "out,o", po::value(&a.out)->value_name("PATH"), a.out,
+                "write the [names] section here", "stdout");
+}
+
+int pair_names_command(const std::vector<std::string>& args) {
+  po::options_description opts("Options");
+  PairNamesArgs a;
+  add_pair_names_options(opts, a);
+  const std::vector<std::string>& groups = a.groups;
+  const std::string& out = a.out;
   po::variables_map vm;
-  int rc = parse_args("pair-names", "--group female=F.tsv --group male=M.tsv [--out FILE]", opts,
-                      args, vm);
+  int rc = parse_args("pair-names", kPairNamesSynopsis, opts, args, vm);
   if (rc >= 0) return rc;
   if (groups.size() < 2) {
     print_error("pair-names: give at least two --group GROUP=FILE");

@@ -8,6 +8,7 @@
 
 #include "base/sha256.h"
 #include "cli/cli.h"
+#include "cli/command_options.h"
 #include "cli/common.h"
 #include "cli/review_args.h"
 #include "review/associations.h"
@@ -38,30 +39,33 @@ Result<review::ReportFile> describe(const std::string& role, const std::string& 
 
 }  // namespace
 
-int report_command(const std::vector<std::string>& args) {
-  po::options_description opts("Options");
-  std::string manifest, edits, assoc, out, format, root, stdin_corpus;
-  bool paragraphs = false;
-  size_t sample = 12;
-  uint64_t seed = 0;
+void add_report_options(po::options_description& opts, ReportArgs& a) {
   // clang-format off
   opts.add_options()
     ("help,h", "show this help")
-    ("manifest", po::value(&manifest)->value_name("PATH"), "the run's manifest (required)")
-    ("edits", po::value(&edits)->value_name("PATH"), "the run's audit log: adds a sample of diffs, guarded and flagged records")
-    ("associations", po::value(&assoc)->value_name("PATH"), "an 'evenhand associations' result to show")
-    ("out", po::value(&out)->value_name("PATH"), "write the HTML page here (required)")
-    ("sample", whole_number("--sample", &sample, 0, kMaxSample), "rewritten records to show, 0 to 1000000, spread across pack entries (default 12)")
-    ("seed", whole_number("--seed", &seed, 0, UINT64_MAX), "seed of the sample, 0 to 2^64-1 (default 0)")
-    ("format", po::value(&format)->value_name("jsonl|text"), "corpus format jsonl|text (default: the manifest's)")
-    ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
-    ("root", po::value(&root)->value_name("DIR"), "read relative input paths of the audit log from this directory")
-    ("stdin-corpus", po::value(&stdin_corpus)->value_name("PATH"), "a copy of what the run read from standard input (logged as <stdin>)");
+    ("manifest", po::value(&a.manifest)->value_name("PATH"), "the run's manifest (required)")
+    ("edits", po::value(&a.edits)->value_name("PATH"), "the run's audit log: adds a sample of diffs, guarded and flagged records")
+    ("associations", po::value(&a.associations)->value_name("PATH"), "an 'evenhand associations' result to show")
+    ("out", po::value(&a.out)->value_name("PATH"), "write the HTML page here (required)");
+  add_defaulted(opts, "sample", whole_number("--sample", &a.sample, 0, kMaxSample), a.sample,
+                "rewritten records to show, 0 to " + std::to_string(kMaxSample) + ", spread across pack entries");
+  add_defaulted(opts, "seed", whole_number("--seed", &a.seed, 0, UINT64_MAX), a.seed, "seed of the sample, 0 to 2^64-1");
+  opts.add_options()
+    ("format", po::value(&a.format)->value_name("jsonl|text"), "corpus format jsonl|text (default: the manifest's)")
+    ("paragraphs", po::bool_switch(&a.paragraphs), "text records are blank-line separated paragraphs")
+    ("root", po::value(&a.root)->value_name("DIR"), "read relative input paths of the audit log from this directory")
+    ("stdin-corpus", po::value(&a.stdin_corpus)->value_name("PATH"), "a copy of what the run read from standard input (logged as <stdin>)");
   // clang-format on
+}
+
+int report_command(const std::vector<std::string>& args) {
+  po::options_description opts("Options");
+  ReportArgs ra;
+  add_report_options(opts, ra);
+  const std::string &manifest = ra.manifest, &edits = ra.edits, &assoc = ra.associations,
+                    &out = ra.out;
   po::variables_map vm;
-  int rc =
-      parse_args("report", "--manifest PATH [--edits PATH] [--associations PATH] --out FILE.html",
-                 opts, args, vm);
+  int rc = parse_args("report", kReportSynopsis, opts, args, vm);
   if (rc >= 0) return rc;
   if (manifest.empty() || out.empty()) {
     print_error("report: give --manifest and --out");
@@ -74,9 +78,9 @@ int report_command(const std::vector<std::string>& args) {
   auto m = review::read_manifest(manifest);
   if (!m.ok()) return report(m.error());
   review::CorpusLayout layout;
-  rc = corpus_layout("report", &*m, format, paragraphs, root, layout);
+  rc = corpus_layout("report", &*m, ra.format, ra.paragraphs, ra.root, layout);
   if (rc >= 0) return rc;
-  layout.stdin_corpus = stdin_corpus;
+  layout.stdin_corpus = ra.stdin_corpus;
   // The corpus files the audit log points at are read too.
   for (const auto& f : m->inputs)
     if (std::string p = review::resolve_input(f.path, layout); !p.empty())
@@ -103,7 +107,7 @@ int report_command(const std::vector<std::string>& args) {
   // records, the second keeps the sample's candidates; memory does not grow with the log.
   std::vector<review::ReviewRecord> guarded, flagged, chosen;
   if (!edits.empty()) {
-    review::StratifiedSampler sampler(sample, seed);
+    review::StratifiedSampler sampler(ra.sample, ra.seed);
     s = review::for_each_review_record(edits, [&](review::ReviewRecord& r) {
       if (!r.edits.empty()) {
         ++in.sample_from;

@@ -8,6 +8,7 @@
 #include <iostream>
 
 #include "cli/cli.h"
+#include "cli/command_options.h"
 #include "cli/common.h"
 #include "cli/review_args.h"
 #include "review/audit_log.h"
@@ -58,41 +59,52 @@ int corpus_layout(const std::string& command, const review::ManifestView* m,
   return -1;
 }
 
-int review_command(const std::vector<std::string>& args) {
-  po::options_description opts("Options");
-  std::string edits, manifest, format, root, stdin_corpus, layout_name = "inline", color = "auto";
-  bool paragraphs = false, no_rules = false, whole = false;
-  size_t sample = 0, width = 0, context = review::kWindowWords;
-  uint64_t seed = 0;
-  review::Filter filter;
+void add_review_options(po::options_description& opts, po::positional_options_description& pos,
+                        ReviewArgs& a) {
+  review::Filter& filter = a.filter;
   // clang-format off
   opts.add_options()
     ("help,h", "show this help")
-    ("edits", po::value(&edits)->value_name("PATH"), "the audit log to review (run --edits); also positional")
-    ("manifest", po::value(&manifest)->value_name("PATH"), "the run's manifest: corpus format and framing from it")
-    ("format", po::value(&format)->value_name("jsonl|text"), "corpus format jsonl|text (default: the manifest's, else jsonl)")
-    ("paragraphs", po::bool_switch(&paragraphs), "text records are blank-line separated paragraphs")
-    ("root", po::value(&root)->value_name("DIR"), "read relative input paths of the log from this directory")
-    ("stdin-corpus", po::value(&stdin_corpus)->value_name("PATH"), "a copy of what a run read from standard input (logged as <stdin>)")
+    ("edits", po::value(&a.edits)->value_name("PATH"), "the audit log to review (run --edits); also positional")
+    ("manifest", po::value(&a.manifest)->value_name("PATH"), "the run's manifest: corpus format and framing from it")
+    ("format", po::value(&a.format)->value_name("jsonl|text"), "corpus format jsonl|text (default: the manifest's, else jsonl)")
+    ("paragraphs", po::bool_switch(&a.paragraphs), "text records are blank-line separated paragraphs")
+    ("root", po::value(&a.root)->value_name("DIR"), "read relative input paths of the log from this directory")
+    ("stdin-corpus", po::value(&a.stdin_corpus)->value_name("PATH"), "a copy of what a run read from standard input (logged as <stdin>)")
     ("rule", po::value(&filter.rules)->value_name("FILE:LINE")->composing(), "only records with an edit by this pack entry (words.txt:67); repeatable")
     ("why", po::value(&filter.whys)->value_name("REASON")->composing(), "only records with an edit of this reason: lexicon|name|context|agreement; repeatable")
     ("field", po::value(&filter.fields)->value_name("POINTER")->composing(), "only records with an edit in this field (JSON Pointer as logged); repeatable")
     ("flag", po::value(&filter.flags)->value_name("CODE")->composing(), "only flagged records with this code ('any': all flagged); repeatable")
-    ("guard", po::value(&filter.guards)->value_name("REASON")->composing(), "only guarded records with this reason ('any': all guarded); repeatable")
-    ("sample", whole_number("--sample", &sample, 0, kMaxSample), "show N records, 0 to 1000000, sampled evenly across pack entries (default 0: all)")
-    ("seed", whole_number("--seed", &seed, 0, UINT64_MAX), "seed of the sample, 0 to 2^64-1 (default 0)")
-    ("layout", po::value(&layout_name)->value_name("inline|columns"), "inline (default) or columns: original | counterfactual")
-    ("color", po::value(&color)->value_name("auto|always|never"), "auto (default: on a terminal unless NO_COLOR is set), always, never")
-    ("width", whole_number("--width", &width, 20, 1000), "line width, 20 to 1000 (default: $COLUMNS, else the terminal's, else 100)")
-    ("context", whole_number("--context", &context, 0, kMaxContext), "words shown each side of an edit, 0 to 200 (default 8; fewer at a clause end or line break)")
-    ("whole", po::bool_switch(&whole), "show every edited field whole, not windows around its edits")
-    ("no-rules", po::bool_switch(&no_rules), "do not list the edits and their rules under each record");
+    ("guard", po::value(&filter.guards)->value_name("REASON")->composing(), "only guarded records with this reason ('any': all guarded); repeatable");
+  add_defaulted(opts, "sample", whole_number("--sample", &a.sample, 0, kMaxSample), a.sample,
+                "show N records, 0 to " + std::to_string(kMaxSample) + ", sampled evenly across pack entries", "all");
+  add_defaulted(opts, "seed", whole_number("--seed", &a.seed, 0, UINT64_MAX), a.seed, "seed of the sample, 0 to 2^64-1");
+  add_defaulted(opts, "layout", po::value(&a.layout)->value_name("inline|columns"), a.layout, "inline or columns: original | counterfactual");
+  add_defaulted(opts, "color", po::value(&a.color)->value_name("auto|always|never"), a.color,
+                "auto (on a terminal unless NO_COLOR is set), always, never");
+  opts.add_options()
+    ("width", whole_number("--width", &a.width, 20, 1000), "line width, 20 to 1000 (default: $COLUMNS, else the terminal's, else 100)")
+    ("whole", po::bool_switch(&a.whole), "show every edited field whole, not windows around its edits")
+    ("no-rules", po::bool_switch(&a.no_rules), "do not list the edits and their rules under each record");
+  add_defaulted(opts, "context", whole_number("--context", &a.context, 0, kMaxContext), a.context,
+                "words shown each side of an edit, 0 to " + std::to_string(kMaxContext) +
+                    " (fewer at a clause end or line break)");
   // clang-format on
-  po::positional_options_description pos;
   pos.add("edits", 1);
+}
+
+int review_command(const std::vector<std::string>& args) {
+  po::options_description opts("Options");
+  po::positional_options_description pos;
+  ReviewArgs a;
+  add_review_options(opts, pos, a);
+  const std::string &edits = a.edits, &manifest = a.manifest, &format = a.format, &root = a.root,
+                    &layout_name = a.layout, &color = a.color;
+  const bool &paragraphs = a.paragraphs, &no_rules = a.no_rules, &whole = a.whole;
+  const size_t &sample = a.sample, &width = a.width, &context = a.context;
+  const review::Filter& filter = a.filter;
   po::variables_map vm;
-  int rc = parse_args("review", "EDITS.jsonl [--manifest M.json] [filters] [--sample N]", opts,
-                      args, vm, &pos);
+  int rc = parse_args("review", kReviewSynopsis, opts, args, vm, &pos);
   if (rc >= 0) return rc;
   if (edits.empty()) {
     print_error("review: give the audit log (--edits PATH)");
@@ -112,7 +124,7 @@ int review_command(const std::vector<std::string>& args) {
     print_error("review: --layout must be inline or columns");
     return kUsage;
   }
-  if (whole && vm.count("context")) {
+  if (whole && !vm["context"].defaulted()) {
     print_error("review: --context sets the windows that --whole replaces; give one of them");
     return kUsage;
   }
@@ -129,12 +141,12 @@ int review_command(const std::vector<std::string>& args) {
   review::CorpusLayout layout;
   rc = corpus_layout("review", mv ? &*mv : nullptr, format, paragraphs, root, layout);
   if (rc >= 0) return rc;
-  layout.stdin_corpus = stdin_corpus;
+  layout.stdin_corpus = a.stdin_corpus;
 
   // Pass 1 checks the whole log before anything is printed, counts it and, with --sample,
   // counts the pack entries the sample's strata are drawn from.
   uint64_t total = 0, matched = 0;
-  review::StratifiedSampler sampler(sample, seed);
+  review::StratifiedSampler sampler(sample, a.seed);
   Status s = review::for_each_review_record(edits, [&](review::ReviewRecord& r) {
     ++total;
     if (review::passes(r, filter)) {

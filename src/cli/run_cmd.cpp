@@ -11,6 +11,7 @@
 #include "audit/manifest.h"
 #include "balance/plan.h"
 #include "cli/cli.h"
+#include "cli/command_options.h"
 #include "cli/common.h"
 #include "cli/corpus_args.h"
 #include "io/sink.h"
@@ -78,12 +79,6 @@ Result<std::string> read_whole(const std::string& path) {
   return ss.str();
 }
 
-struct BalanceArgs {
-  std::string target, basis = "mentions", plan_path;
-  double tolerance = 0.02;
-  bool allow_drop = false, no_add = false, no_flip = false;
-};
-
 // Plan options from the command line; the plan aims within half the tolerance (see README).
 Result<balance::PlanOptions> plan_options(const BalanceArgs& b) {
   balance::PlanOptions po;
@@ -98,18 +93,6 @@ Result<balance::PlanOptions> plan_options(const BalanceArgs& b) {
   po.allow_add = !b.no_add;
   po.allow_flip = !b.no_flip;
   return po;
-}
-
-void add_balance_options(po::options_description& opts, BalanceArgs& b) {
-  // clang-format off
-  opts.add_options()
-    ("target", po::value(&b.target)->value_name("SPEC"), "balance: the mix to reach, e.g. female=1,male=1")
-    ("basis", po::value(&b.basis)->value_name("mentions|records"), "balance: count mentions (default) or records")
-    ("tolerance", real_number("--tolerance", &b.tolerance, {0, 1, true, true}), "balance: allowed distance of each share from the target, above 0 and below 1 (default 0.02)")
-    ("allow-drop", po::bool_switch(&b.allow_drop), "balance: the plan may leave records out")
-    ("no-add", po::bool_switch(&b.no_add), "balance: the plan may not add counterfactual copies")
-    ("no-flip", po::bool_switch(&b.no_flip), "balance: the plan may not replace records by their counterfactual");
-  // clang-format on
 }
 
 void print_plan(const balance::Plan& p) {
@@ -167,34 +150,74 @@ std::string run_manifest(const std::vector<std::string>& argv_all, const CorpusA
 
 }  // namespace
 
-int run_command(const std::vector<std::string>& args, const std::vector<std::string>& argv_all) {
-  po::options_description opts("Options");
-  CorpusArgs a;
-  BalanceArgs b;
-  pipeline::RunOptions& ro = a.ro;
-  std::string mode = "augment", compress = "auto", manifest_path;
+void add_balance_options(po::options_description& opts, BalanceArgs& b) {
+  // clang-format off
+  opts.add_options()
+    ("target", po::value(&b.target)->value_name("SPEC"), "balance: the mix to reach, e.g. female=1,male=1");
+  add_defaulted(opts, "basis", po::value(&b.basis)->value_name("mentions|records"), b.basis, "balance: count mentions or records");
+  add_defaulted(opts, "tolerance", real_number("--tolerance", &b.tolerance, {0, 1, true, true}), b.tolerance,
+                "balance: allowed distance of each share from the target, above 0 and below 1");
+  opts.add_options()
+    ("allow-drop", po::bool_switch(&b.allow_drop), "balance: the plan may leave records out")
+    ("no-add", po::bool_switch(&b.no_add), "balance: the plan may not add counterfactual copies")
+    ("no-flip", po::bool_switch(&b.no_flip), "balance: the plan may not replace records by their counterfactual");
+  // clang-format on
+}
+
+void add_run_options(po::options_description& opts, RunArgs& a) {
+  pipeline::RunOptions& ro = a.corpus.ro;
   io::SinkOptions& so = ro.output_options;
   const io::IntRange zl = io::zstd_levels(), zw = io::zstd_worker_counts(), gl = io::kGzipLevels;
   auto range = [](io::IntRange r) { return std::to_string(r.lo) + " to " + std::to_string(r.hi); };
-  add_corpus_options(opts, a);
+  add_corpus_options(opts, a.corpus, CorpusUse::rewrite);
   // clang-format off
   opts.add_options()
     ("out", po::value(&ro.output)->value_name("PATH"), "output file ('-' is stdout); .zst/.gz names are compressed")
-    ("manifest", po::value(&manifest_path)->value_name("PATH"), "write the run manifest (JSON) here")
-    ("edits", po::value(&ro.edits_path)->value_name("PATH"), "write the audit log (JSONL, one line per rewritten record) here")
-    ("mode", po::value(&mode)->value_name("MODE"), "augment (add a counterfactual copy after each record with mentions; default), substitute (replace with probability --rate), balance (reach --target with the fewest changes, or apply --plan), passthrough (copy and validate only)")
-    ("rate", real_number("--rate", &ro.rate, {0, 1}), "substitute: probability that a record with mentions is replaced, 0 to 1 (default 0.5)")
-    ("plan", po::value(&b.plan_path)->value_name("PATH"), "balance: apply this plan (from 'evenhand plan') instead of making one")
-    ("compress", po::value(&compress)->value_name("auto|none|zstd|gzip"), "output compression: auto (by name), none, zstd, gzip")
-    ("zstd-level", whole_number("--zstd-level", &so.zstd_level, zl.lo, zl.hi), ("zstd level, " + range(zl) + " (default 3; 0: libzstd's default; below 1: faster)").c_str())
-    ("zstd-threads", whole_number("--zstd-threads", &so.zstd_workers, zw.lo, zw.hi), ("zstd worker threads, " + range(zw) + " (default 0: in the writer thread)").c_str())
-    ("gzip-level", whole_number("--gzip-level", &so.gzip_level, gl.lo, gl.hi), "gzip level, -1 to 9 (default 6; -1: zlib's default; 0: store)")
+    ("manifest", po::value(&a.manifest_path)->value_name("PATH"), "write the run manifest (JSON) here")
+    ("edits", po::value(&ro.edits_path)->value_name("PATH"), "write the audit log (JSONL, one line per rewritten record) here");
+  add_defaulted(opts, "mode", po::value(&a.mode)->value_name("MODE"), a.mode,
+                "augment (add a counterfactual copy after each record with mentions), substitute (replace with probability --rate), balance (reach --target with the fewest changes, or apply --plan), passthrough (copy and validate only)");
+  add_defaulted(opts, "rate", real_number("--rate", &ro.rate, {0, 1}), ro.rate, "substitute: probability that a record with mentions is replaced, 0 to 1");
+  opts.add_options()
+    ("plan", po::value(&a.balance.plan_path)->value_name("PATH"), "balance: apply this plan (from 'evenhand plan') instead of making one");
+  add_defaulted(opts, "compress", po::value(&a.compress)->value_name("auto|none|zstd|gzip"), a.compress, "output compression: auto (by name), none, zstd, gzip");
+  add_defaulted(opts, "zstd-level", whole_number("--zstd-level", &so.zstd_level, zl.lo, zl.hi), so.zstd_level,
+                "zstd level, " + range(zl) + "; 0: libzstd's own default; below 1: faster");
+  add_defaulted(opts, "zstd-threads", whole_number("--zstd-threads", &so.zstd_workers, zw.lo, zw.hi), so.zstd_workers,
+                "zstd worker threads, " + range(zw), "in the writer thread");
+  add_defaulted(opts, "gzip-level", whole_number("--gzip-level", &so.gzip_level, gl.lo, gl.hi), so.gzip_level,
+                "gzip level, " + range(gl) + "; -1: zlib's own default; 0: store");
+  opts.add_options()
     ("provenance", po::bool_switch(&ro.provenance), "add a \"_evenhand\" member to each written record: source file, line, original or counterfactual");
   // clang-format on
-  add_balance_options(opts, b);
+  add_balance_options(opts, a.balance);
+}
+
+void add_tally_options(po::options_description& opts, TallyArgs& a) {
+  add_corpus_options(opts, a.corpus, CorpusUse::count);
+  opts.add_options()("out", po::value(&a.out)->value_name("PATH"),
+                     "write the tally (JSON) here ('-' is stdout)");
+}
+
+void add_plan_options(po::options_description& opts, PlanArgs& a) {
+  opts.add_options()("help,h", "show this help")(
+      "tally", po::value(&a.tallies)->value_name("PATH")->composing(),
+      "a tally from 'evenhand tally'; repeatable: the tallies of shards are merged")(
+      "out", po::value(&a.out)->value_name("PATH"), "write the plan (JSON) here ('-' is stdout)")(
+      "quiet,q", po::bool_switch(&a.quiet), "print nothing but errors");
+  add_balance_options(opts, a.balance);
+}
+
+int run_command(const std::vector<std::string>& args, const std::vector<std::string>& argv_all) {
+  po::options_description opts("Options");
+  RunArgs run;
+  add_run_options(opts, run);
+  CorpusArgs& a = run.corpus;
+  BalanceArgs& b = run.balance;
+  pipeline::RunOptions& ro = a.ro;
+  const std::string &mode = run.mode, &compress = run.compress, &manifest_path = run.manifest_path;
   po::variables_map vm;
-  int rc = parse_args("run", "--pack PACK --in PATH [--in PATH ...] --out PATH [OPTIONS]", opts,
-                      args, vm);
+  int rc = parse_args("run", kRunSynopsis, opts, args, vm);
   if (rc >= 0) return rc;
   if (mode == "augment") {
     ro.mode = pipeline::Mode::augment;
@@ -351,14 +374,12 @@ int run_command(const std::vector<std::string>& args, const std::vector<std::str
 
 int tally_command(const std::vector<std::string>& args) {
   po::options_description opts("Options");
-  CorpusArgs a;
-  std::string out;
-  add_corpus_options(opts, a);
-  opts.add_options()("out", po::value(&out)->value_name("PATH"),
-                     "write the tally (JSON) here ('-' is stdout)");
+  TallyArgs tally;
+  add_tally_options(opts, tally);
+  CorpusArgs& a = tally.corpus;
+  const std::string& out = tally.out;
   po::variables_map vm;
-  int rc = parse_args("tally", "--pack PACK --in PATH [--in PATH ...] --out TALLY.json [OPTIONS]",
-                      opts, args, vm);
+  int rc = parse_args("tally", kTallySynopsis, opts, args, vm);
   if (rc >= 0) return rc;
   a.ro.mode = pipeline::Mode::tally;
   rc = finish_corpus_args("tally", a);
@@ -398,19 +419,13 @@ int tally_command(const std::vector<std::string>& args) {
 
 int plan_command(const std::vector<std::string>& args) {
   po::options_description opts("Options");
-  BalanceArgs b;
-  std::vector<std::string> tallies;
-  std::string out;
-  bool quiet = false;
-  opts.add_options()("help,h", "show this help")(
-      "tally", po::value(&tallies)->value_name("PATH")->composing(),
-      "a tally from 'evenhand tally'; repeatable: the tallies of shards are merged")(
-      "out", po::value(&out)->value_name("PATH"), "write the plan (JSON) here ('-' is stdout)")(
-      "quiet,q", po::bool_switch(&quiet), "print nothing but errors");
-  add_balance_options(opts, b);
+  PlanArgs plan;
+  add_plan_options(opts, plan);
+  const BalanceArgs& b = plan.balance;
+  const std::vector<std::string>& tallies = plan.tallies;
+  const std::string& out = plan.out;
   po::variables_map vm;
-  int rc = parse_args("plan", "--tally T.json [--tally ...] --target SPEC --out PLAN.json", opts,
-                      args, vm);
+  int rc = parse_args("plan", kPlanSynopsis, opts, args, vm);
   if (rc >= 0) return rc;
   if (tallies.empty() || out.empty() || b.target.empty()) {
     print_error("plan: --tally, --target and --out are required");
@@ -439,7 +454,7 @@ int plan_command(const std::vector<std::string>& args) {
   if (!p.ok()) return report(p.error());
   Status s = write_file_atomic(out, balance::plan_to_json(*p));
   if (!s.ok()) return report(s.error());
-  if (!quiet) print_plan(*p);
+  if (!plan.quiet) print_plan(*p);
   return kOk;
 }
 

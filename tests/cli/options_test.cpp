@@ -77,7 +77,7 @@ TEST_CASE("a bad numeric option is a usage error naming the option and its range
       {run + " --max-record-bytes -1", "o.jsonl", "--max-record-bytes must be"},
       {balance + " --tolerance 1", "o.jsonl", "--tolerance must be a number above 0 and below 1"},
       {tally + " --threads 1000", "t.json", "--threads must be a whole number from 0 to 256"},
-      {tally + " --seed -5", "t.json", "--seed must be a whole number from 0"},
+      {tally + " --threads -5", "t.json", "--threads must be a whole number from 0"},
       {"plan --tally " + d.file("m.json") +
            " --target female=1,male=1 --out {out} --tolerance -0.1",
        "p.json", "--tolerance must be a number above 0 and below 1"},
