@@ -94,13 +94,13 @@
 // 33 are the model's: double objects with a bare noun ("sold her minerals", "giving her new
 // independence"), "her" + participle ("got her acquitted"), "-ing" words ("keep her looking
 // nice"; the "-ing" rule also misfires on nominal gerunds: "her writing on it"). Against
-// corrected tags "her" would be near 97.6%: the hand adjudication of the shipped model's
-// disagreements (tests/external/brown-adjudication) gives her 1358/1391, his 3670/3672. Of the 17
-// "his" misses then (16 now) about 9 are tag errors (PP$ for a standalone "his": "that smooth face
-// of his ."); the model's own are standalone "his" before a word ("his alone", "brought his along",
-// "his on the floor", "his
+// corrected tags "her" would be near 97.6%. Of the 17 "his" misses then (16 now) about 9 are
+// tag errors (PP$ for a standalone "his": "that smooth face of his ."); the model's own are
+// standalone "his" before a word ("his alone", "brought his along", "his on the floor", "his
 // ''"; the preposition rule is for the middle two). In the odd files, likewise, about 60 of
-// the 94 cross-validation "her" misses are tag errors.
+// the 94 cross-validation "her" misses are tag errors. The hand adjudication of the shipped
+// model's even-file disagreements (tests/external/brown-adjudication) gives her 1358/1391,
+// his 3670/3672 against the adjudicated gold.
 // Reproduce (from the repo root): rules/tools/train-possessive.sh
 // (builds rewrite_tests in build-poss, retrains rules/en-gender/possessive.model from the odd
 // files, then runs the [possessive] tests, which print the even-file accuracies).
