@@ -482,17 +482,17 @@ std::string look_first_section(const ManifestView& m) {
                         pct(double(e.hits) / m.edits) +
                         " of all: one entry drives much of the run; read some of its edits.");
   size_t words = 0;
+  std::string names;
   for (const auto& e : hits) {
-    if (!e.common_word || e.hits == 0) continue;
-    if (++words > kLookWordNames) continue;
-    item("word-name", "<b>" + esc(e.forms) + "</b> <span class=\"ptr\">" + esc(e.rule) +
-                          "</span> swapped " + num(double(e.hits)) +
-                          " times: a first name that is also a common English word; check that "
-                          "it named a person.");
+    if (!e.common_word || e.hits == 0 || ++words > kLookWordNames) continue;
+    names += (words > 1 ? ", <b>" : "<b>") + esc(e.forms) + "</b> " + num(double(e.hits));
   }
-  if (words > kLookWordNames)
-    item("word-name", "and " + std::to_string(words - kLookWordNames) +
-                          " more such names (the pack marks them <code>~word</code>).");
+  if (words > kLookWordNames) names += " and " + std::to_string(words - kLookWordNames) + " more";
+  if (words)
+    item("word-name",
+         "First names that are also common English words (<code>~word</code> in "
+         "the pack), swapped: " +
+             names + ". Check that they named persons.");
   auto reasons = [](const std::vector<std::pair<std::string, uint64_t>>& by) {
     std::string s;
     for (size_t i = 0; i < by.size(); ++i)

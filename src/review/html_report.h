@@ -37,12 +37,12 @@ struct ReportInput {
 inline constexpr size_t kReportListed = 50;
 
 // "Look here first" lists a pack entry with at least kLookEntryHits edits that are at least
-// kLookEntryShare of all edits, the first kLookWordNames name pairs marked ~word that were
-// swapped (most swapped first), a balance share outside the tolerance, and the guarded and
-// flagged record counts when not zero.
+// kLookEntryShare of all edits, in one item the first kLookWordNames name pairs marked ~word
+// that were swapped (most swapped first), a balance share outside the tolerance, and the guarded
+// and flagged record counts when not zero.
 inline constexpr uint64_t kLookEntryHits = 20;
 inline constexpr double kLookEntryShare = 0.10;
-inline constexpr size_t kLookWordNames = 8;
+inline constexpr size_t kLookWordNames = 5;
 
 // The cautions of the README ("## Cautions"), as plain-text paragraphs.
 const std::vector<std::string>& report_cautions();
