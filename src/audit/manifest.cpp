@@ -167,17 +167,24 @@ std::string render_manifest(const ManifestData& d) {
     struct Hit {
       std::string rule, forms;
       uint64_t hits;
+      bool common_word;
     };
     std::vector<Hit> list;
+    const size_t sets = d.pack->sets().size();
     for (const auto& [index, hits] : st.entry_hits) {
       auto [rule, forms] = describe_entry(*d.pack, index);
-      list.push_back({rule, forms, hits});
+      // A name pair marked ~word in the pack: one of its names is also a common word.
+      bool word = index >= sets && index - sets < d.pack->names().size() &&
+                  d.pack->names()[index - sets].word_like;
+      list.push_back({rule, forms, hits, word});
     }
     std::sort(list.begin(), list.end(),
               [](const Hit& a, const Hit& b) { return rule_less(a.rule, b.rule); });
     for (const auto& h : list) {
       w.begin_object().key("rule").value(h.rule).key("forms").value(h.forms);
-      w.key("hits").value(h.hits).end_object();
+      w.key("hits").value(h.hits);
+      if (h.common_word) w.key("common_word").value(true);
+      w.end_object();
     }
   }
   w.end_array();

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <optional>
 
 #include "audit/manifest.h"
 #include "review/diff.h"
@@ -77,14 +78,14 @@ std::string with_code(std::string_view s) {
 std::string num(double v, int digits = 0) {
   char buf[64];
   if (digits == 0 && std::fabs(v - std::round(v)) < 1e-9) {
-    // thousands separated by a thin space
+    // thousands separated by a narrow no-break space (U+202F): a number never wraps
     std::snprintf(buf, sizeof buf, "%.0f", v);
     std::string s = buf, out;
     size_t start = s[0] == '-' ? 1 : 0;
     for (size_t i = 0; i < s.size(); ++i) {
       out += s[i];
       size_t left = s.size() - i - 1;
-      if (i >= start && left > 0 && left % 3 == 0) out += "\u2009";
+      if (i >= start && left > 0 && left % 3 == 0) out += "\u202F";
     }
     return out;
   }
@@ -119,6 +120,25 @@ struct Series {
   std::vector<double> values;  // per category; NaN: no bar
   std::string style;           // "before", "planned", "after"
 };
+
+// The legend of a chart whose bars are coloured by category and styled by series: per
+// series one swatch per category colour, drawn in the series' style, then its name.
+std::string legend(const std::vector<Series>& series, size_t categories, double x, double y) {
+  std::string s;
+  size_t n = std::max<size_t>(categories, 1);
+  for (const auto& se : series) {
+    for (size_t c = 0; c < n; ++c) {
+      s += "<rect class=\"bar swatch " + se.style + "\" x=\"" + fmt(x + 7.0 * c) + "\" y=\"" +
+           fmt(y) + "\" width=\"6\" height=\"10\" fill=\"" + group_color(c) + "\" stroke=\"" +
+           group_color(c) + "\"/>";
+    }
+    x += 7.0 * n + 3;
+    s += "<text class=\"tick\" x=\"" + fmt(x) + "\" y=\"" + fmt(y + 9) + "\">" + esc(se.name) +
+         "</text>";
+    x += 14 + 7.0 * se.name.size();
+  }
+  return s;
+}
 
 // Grouped vertical bars: one cluster per category (coloured by category), one bar per
 // series (before light, planned outlined, after solid).
@@ -166,15 +186,7 @@ std::string grouped_bars(const std::string& id, const std::string& title,
     s += "<text class=\"cat\" x=\"" + fmt(L + c * cw + cw / 2) + "\" y=\"" + fmt(H - B + 18) +
          "\" text-anchor=\"middle\">" + esc(categories[c]) + "</text>";
   }
-  // legend
-  double lx = L;
-  for (const auto& se : series) {
-    s += "<rect class=\"bar " + se.style + "\" x=\"" + fmt(lx) + "\" y=\"" + fmt(H - 14) +
-         "\" width=\"12\" height=\"10\" fill=\"#555\" stroke=\"#555\"/>";
-    s += "<text class=\"tick\" x=\"" + fmt(lx + 16) + "\" y=\"" + fmt(H - 5) + "\">" +
-         esc(se.name) + "</text>";
-    lx += 24 + 7.0 * se.name.size();
-  }
+  s += legend(series, categories.size(), L, H - 14);
   s += "</svg>";
   return s;
 }
@@ -309,6 +321,217 @@ std::string association_chart(const AssociationReport& a, const std::vector<size
   return s;
 }
 
+// Shares of a balance run's target groups in its basis: what the target asked, what the
+// input had, what the plan expected and what was written (from the groups' counts).
+struct ShareRow {
+  std::string group;
+  size_t color = 0;  // the group's index in the manifest, as in the other charts
+  double target = 0, before = 0, after = 0;
+  std::optional<double> expected;
+};
+
+std::vector<ShareRow> share_rows(const ManifestView& m) {
+  const BalanceView& b = *m.balance;
+  bool mentions = b.basis == "mentions";
+  double weights = 0, before = 0, after = 0;
+  std::vector<ShareRow> rows;
+  for (const auto& [group, weight] : b.target) {
+    ShareRow r{group, 0, weight, 0, 0, std::nullopt};
+    for (size_t g = 0; g < m.groups.size(); ++g) {
+      if (m.groups[g].name != group) continue;
+      const GroupRow& gr = m.groups[g];
+      r.color = g;
+      r.before = double(mentions ? gr.before_mentions : gr.before_records);
+      r.after = double(mentions ? gr.after_mentions : gr.after_records);
+    }
+    for (const auto& [eg, share] : b.expected_share)
+      if (eg == group) r.expected = share;
+    weights += weight;
+    before += r.before;
+    after += r.after;
+    rows.push_back(std::move(r));
+  }
+  for (auto& r : rows) {
+    r.target = weights > 0 ? r.target / weights : 0;
+    r.before = before > 0 ? r.before / before : 0;
+    r.after = after > 0 ? r.after / after : 0;
+  }
+  return rows;
+}
+
+bool within(const ShareRow& r, double tolerance) {
+  return std::fabs(r.after - r.target) <= tolerance + 1e-12;
+}
+
+std::string pct(double share) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.1f%%", 100 * share);
+  return buf;
+}
+
+// Per target group three bars of its share: before (light), the target (outlined, inside a
+// band of +-tolerance) and after (solid), on one 0-100% scale.
+std::string balance_chart(const std::vector<ShareRow>& rows, double tolerance) {
+  const double W = 940, L = 150, R = 70, bar_h = 14, T = 34, gap = 12;
+  const double block = 3 * bar_h + gap, plot = W - L - R;
+  double H = T + std::max<size_t>(rows.size(), 1) * block + 24;
+  auto xs = [&](double share) { return L + std::clamp(share, 0.0, 1.0) * plot; };
+  std::string title = "Share of each target group: before, target and after";
+  std::string s = "<svg id=\"chart-balance\" class=\"chart wide\" viewBox=\"0 0 " + fmt(W) + " " +
+                  fmt(H) + "\" role=\"img\" aria-label=\"" + esc(title) +
+                  "\" xmlns=\"http://www.w3.org/2000/svg\"><title>" + esc(title) + "</title>";
+  s += "<text class=\"ct\" x=\"0\" y=\"18\">" + esc(title) + "</text>";
+  for (double t = 0; t <= 1.0001; t += 0.25) {
+    s += "<line class=\"grid\" x1=\"" + fmt(xs(t)) + "\" x2=\"" + fmt(xs(t)) + "\" y1=\"" +
+         fmt(T - 6) + "\" y2=\"" + fmt(H - 20) + "\"/><text class=\"tick\" x=\"" + fmt(xs(t)) +
+         "\" y=\"" + fmt(H - 6) + "\" text-anchor=\"middle\">" + pct(t) + "</text>";
+  }
+  for (size_t i = 0; i < rows.size(); ++i) {
+    const ShareRow& r = rows[i];
+    const char* color = group_color(r.color);
+    double y = T + i * block;
+    s += "<rect class=\"band\" x=\"" + fmt(xs(r.target - tolerance)) + "\" y=\"" + fmt(y - 2) +
+         "\" width=\"" + fmt(xs(r.target + tolerance) - xs(r.target - tolerance)) + "\" height=\"" +
+         fmt(3 * bar_h + 4) + "\"><title>target " + pct(r.target) + " \u00b1 " +
+         fmt(100 * tolerance) + " points</title></rect>";
+    s += "<text class=\"cat\" x=\"" + fmt(L - 10) + "\" y=\"" + fmt(y + 1.5 * bar_h + 4) +
+         "\" text-anchor=\"end\">" + esc(r.group) + "</text>";
+    const std::pair<const char*, double> bars[] = {
+        {"before", r.before}, {"planned", r.target}, {"after", r.after}};
+    for (size_t k = 0; k < 3; ++k) {
+      const char* name = k == 1 ? "target" : bars[k].first;
+      double by = y + k * bar_h;
+      s += std::string("<rect class=\"bar ") + bars[k].first + "\" data-series=\"" + name +
+           "\" data-group=\"" + esc(r.group) + "\" x=\"" + fmt(L) + "\" y=\"" + fmt(by + 1) +
+           "\" width=\"" + fmt(std::max(xs(bars[k].second) - L, 1.0)) + "\" height=\"" +
+           fmt(bar_h - 2) + "\" fill=\"" + color + "\" stroke=\"" + color + "\"><title>" +
+           esc(r.group) + ", " + name + ": " + pct(bars[k].second) + "</title></rect>";
+      s += "<text class=\"val\" x=\"" + fmt(xs(bars[k].second) + 5) + "\" y=\"" +
+           fmt(by + bar_h - 3) + "\">" + name + " " + pct(bars[k].second) + "</text>";
+    }
+  }
+  return s + "</svg>";
+}
+
+// The balance section: the target, tolerance and basis, the shares reached, and what the
+// plan changed against the fewest changes any plan could make.
+std::string balance_section(const ManifestView& m) {
+  const BalanceView& b = *m.balance;
+  std::vector<ShareRow> rows = share_rows(m);
+  bool reached = std::all_of(rows.begin(), rows.end(),
+                             [&](const ShareRow& r) { return within(r, b.tolerance); });
+  std::string h = "<section id=\"balance\"><h2>Balance<small>basis " + esc(b.basis) +
+                  ", tolerance \u00b1" + fmt(100 * b.tolerance) +
+                  " points</small></h2><p class=\"lead\" id=\"balance-verdict\">";
+  h += reached ? "<b class=\"ok\">Target reached:</b> every target group's share of the written "
+                 "corpus is within the tolerance."
+               : "<b class=\"bad\">Target missed:</b> a share of the written corpus is outside "
+                 "the tolerance (marked below).";
+  h += " Shares are of " + esc(b.basis) +
+       " among the target's groups, counted before (the input) and after (what was written).</p>";
+  h += balance_chart(rows, b.tolerance);
+  h += "<table id=\"table-balance\"><tr><th>group</th><th class=\"n\">target</th><th "
+       "class=\"n\">before</th><th class=\"n\">planned</th><th class=\"n\">after</th><th "
+       "class=\"n\">after &minus; target</th></tr>";
+  for (const auto& r : rows) {
+    h += "<tr><td>" + esc(r.group) + "</td><td class=\"n\">" + pct(r.target) +
+         "</td><td class=\"n\">" + pct(r.before) + "</td><td class=\"n\">" +
+         (r.expected ? pct(*r.expected) : "&ndash;") + "</td><td class=\"n\">" + pct(r.after) +
+         "</td><td class=\"n" + (within(r, b.tolerance) ? "" : " bad") + "\">" +
+         fmt(100 * (r.after - r.target)) + " points</td></tr>";
+  }
+  h += "</table><p id=\"balance-plan\">The plan changes " + num(double(b.planned_changed)) +
+       " records; no plan can reach the target with fewer than " + num(double(b.lower_bound)) +
+       ". ";
+  h += b.minimal ? "<b class=\"ok\">Proved minimal.</b>"
+                 : "<b class=\"bad\">Not proved minimal</b> (the exact search stopped or found "
+                   "nothing better; the gap is at most " +
+                       num(double(b.planned_changed - std::min(b.planned_changed, b.lower_bound))) +
+                       " records).";
+  h += " Written:";
+  for (size_t i = 0; i < b.actions.size(); ++i)
+    h += std::string(i ? "," : "") + " " + esc(b.actions[i].first) + " " +
+         num(double(b.actions[i].second));
+  h += ". The plan aimed within \u00b1" + fmt(100 * b.planned_tolerance) +
+       " points; per-record decisions match it in expectation.";
+  if (!b.plan.empty()) h += " Plan: " + esc(b.plan) + ".";
+  return h + "</p></section>\n";
+}
+
+// The "look here first" list: what a reviewer should read before the rest (thresholds in
+// html_report.h and the README).
+std::string look_first_section(const ManifestView& m) {
+  std::vector<std::string> items;
+  auto item = [&](const char* kind, const std::string& text) {
+    items.push_back("<li data-kind=\"" + std::string(kind) + "\">" + text + "</li>");
+  };
+  if (m.balance) {
+    for (const auto& r : share_rows(m))
+      if (!within(r, m.balance->tolerance))
+        item("balance", "<b>" + esc(r.group) + "</b> is " + pct(r.after) + " of " +
+                            esc(m.balance->basis) + " after the run, target " + pct(r.target) +
+                            " \u00b1 " + fmt(100 * m.balance->tolerance) + " points.");
+  }
+  std::vector<HitRow> hits = m.entry_hits;
+  std::stable_sort(hits.begin(), hits.end(),
+                   [](const HitRow& a, const HitRow& b) { return a.hits > b.hits; });
+  for (const auto& e : hits)
+    if (e.hits >= kLookEntryHits && m.edits > 0 && double(e.hits) / m.edits >= kLookEntryShare)
+      item("entry", "<b>" + esc(e.forms) + "</b> <span class=\"ptr\">" + esc(e.rule) +
+                        "</span> made " + num(double(e.hits)) + " edits, " +
+                        pct(double(e.hits) / m.edits) +
+                        " of all: one entry drives much of the run; read some of its edits.");
+  size_t words = 0;
+  std::string names;
+  for (const auto& e : hits) {
+    if (!e.common_word || e.hits == 0 || ++words > kLookWordNames) continue;
+    names += (words > 1 ? ", <b>" : "<b>") + esc(e.forms) + "</b> " + num(double(e.hits));
+  }
+  if (words > kLookWordNames) names += " and " + std::to_string(words - kLookWordNames) + " more";
+  if (words)
+    item("word-name",
+         "First names that are also common English words (<code>~word</code> in "
+         "the pack), swapped: " +
+             names + ". Check that they named persons.");
+  auto reasons = [](const std::vector<std::pair<std::string, uint64_t>>& by) {
+    std::string s;
+    for (size_t i = 0; i < by.size(); ++i)
+      s += (i ? ", " : " (") + esc(by[i].first) + " " + num(double(by[i].second)) +
+           (i + 1 == by.size() ? ")" : "");
+    return s;
+  };
+  if (uint64_t g = m.record_count("guarded"))
+    item("guarded", "<b>Guarded records: " + num(double(g)) + "</b>" +
+                        reasons(m.guarded_by_reason) +
+                        ", left as they were: see Guarded records below.");
+  if (uint64_t f = m.record_count("flagged"))
+    item("flagged", "<b>Flagged records: " + num(double(f)) + "</b>" +
+                        reasons(m.flagged_by_reason) +
+                        ": agreement the engine could not settle; see Agreement cases below.");
+  std::string h = "<section id=\"look-first\"><h2>Look here first</h2>";
+  if (items.empty()) return h + "<p class=\"muted\">Nothing stands out.</p></section>\n";
+  h += "<ul class=\"look\">";
+  for (const auto& i : items) h += i;
+  return h + "</ul></section>\n";
+}
+
+// The header rows of the association table: with an after corpus, a row naming the two
+// column groups above the columns, and every column label saying which corpus it is.
+std::string association_head(const AssociationReport& a, bool after) {
+  std::string h;
+  if (after)
+    h += "<tr><th colspan=\"2\"></th><th class=\"colgroup\" colspan=\"4\">before (the input "
+         "corpus)</th><th class=\"colgroup\" colspan=\"4\">after (the written corpus)</th></tr>";
+  h += "<tr><th>target</th><th class=\"n\">occurs</th>";
+  for (const char* when : {"before", "after"}) {
+    if (std::string(when) == "after" && !after) break;
+    for (size_t g = 0; g < 2; ++g)
+      h += "<th class=\"n\">with " + esc(a.groups[g]) + " " + when + "</th>";
+    h += std::string("<th class=\"n\">z ") + when + "</th><th class=\"n\">p " + when + "</th>";
+  }
+  return h + "</tr>";
+}
+
 // A field as review shows it by default: per window around its edits, a line with the
 // pointer and the edits' logged offsets, then the text between the statements of the cuts.
 std::string field_html(const ReviewRecord& r, const FieldText& f) {
@@ -376,7 +599,8 @@ svg .bar.after{fill-opacity:.95}
 table{border-collapse:collapse;width:100%;font-size:13.5px;margin-top:10px}
 th,td{text-align:left;padding:5px 8px;border-bottom:1px solid var(--line);vertical-align:top}
 th{font-weight:600;color:var(--muted);font-size:12.5px}
-td.n,th.n{text-align:right;font-variant-numeric:tabular-nums}
+td.n,th.n{text-align:right;font-variant-numeric:tabular-nums;white-space:nowrap}
+th.colgroup{text-align:center;border-bottom:2px solid var(--line)}
 td.hash{font-family:ui-monospace,"DejaVu Sans Mono",monospace;font-size:12px;word-break:break-all}
 .rec{border-top:1px solid var(--line);padding:12px 0}
 .rec:first-of-type{border-top:0}
@@ -389,6 +613,11 @@ del{background:#fee2e2;color:#991b1b;text-decoration:line-through;border-radius:
 ins{background:#dcfce7;color:#166534;text-decoration:none;border-radius:3px;padding:0 2px;font-weight:600}
 ul.edits{margin:0;padding-left:18px;font-size:12.5px;color:var(--muted)}
 .cautions li{margin:6px 0}
+ul.look{margin:0;padding-left:20px}
+ul.look li{margin:4px 0}
+.ok{color:#166534}
+.bad,td.bad{color:#b91c1c}
+svg .band{fill:#a8a29e;fill-opacity:.18}
 .muted{color:var(--muted)}
 @media (max-width:760px){.charts{grid-template-columns:1fr}}
 )CSS";
@@ -408,6 +637,9 @@ std::string render_report(const ReportInput& in) {
        esc(m.pack_version) + "</code> &middot; axis " + esc(m.axis) + " &middot; mode " +
        esc(m.mode) + " &middot; started " + esc(m.started_at) + " &middot; evenhand " +
        esc(m.tool_version) + "</p></header>\n<main>\n";
+
+  if (m.balance) h += balance_section(m);
+  h += look_first_section(m);
 
   // Summary
   h += "<section id=\"summary\"><h2>Summary</h2><div class=\"tiles\">";
@@ -577,13 +809,7 @@ std::string render_report(const ReportInput& in) {
          " co-occurrences with the two groups, too few for one. Co-occurrence in the text says "
          "nothing about a trained model.</p>";
     h += association_chart(a, top, 0, 1);
-    h += "<table><tr><th>target</th><th class=\"n\">occurs</th><th class=\"n\">with " +
-         esc(a.groups[0]) + "</th><th class=\"n\">with " + esc(a.groups[1]) +
-         "</th><th class=\"n\">z before</th><th class=\"n\">p</th>";
-    if (after)
-      h += "<th class=\"n\">with " + esc(a.groups[0]) + "</th><th class=\"n\">with " +
-           esc(a.groups[1]) + "</th><th class=\"n\">z after</th><th class=\"n\">p</th>";
-    h += "</tr>";
+    h += "<table id=\"table-associations\">" + association_head(a, after != nullptr);
     for (size_t t : order) {
       const auto& b = before.targets[t];
       const auto* pb = pair_of(b, 0, 1);

@@ -36,13 +36,23 @@ struct ReportInput {
 // Guarded and flagged records listed on the page, each list in log order; the rest are counted.
 inline constexpr size_t kReportListed = 50;
 
+// "Look here first" lists a pack entry with at least kLookEntryHits edits that are at least
+// kLookEntryShare of all edits, in one item the first kLookWordNames name pairs marked ~word
+// that were swapped (most swapped first), a balance share outside the tolerance, and the guarded
+// and flagged record counts when not zero.
+inline constexpr uint64_t kLookEntryHits = 20;
+inline constexpr double kLookEntryShare = 0.10;
+inline constexpr size_t kLookWordNames = 5;
+
 // The cautions of the README ("## Cautions"), as plain-text paragraphs.
 const std::vector<std::string>& report_cautions();
 
 // The page. Element ids that tests and readers rely on: chart-groups-mentions,
 // chart-groups-records, chart-entries, chart-flagged, chart-guarded, chart-associations
-// (when associations are given), section ids summary, groups, entries, agreement, guards,
-// associations, sample, files, cautions.
+// (when associations are given), chart-balance, table-balance, balance-verdict and
+// balance-plan (balance runs only), section ids balance (balance runs only), look-first
+// (its items are li elements with data-kind balance, entry, word-name, guarded or flagged),
+// summary, groups, entries, agreement, guards, associations, sample, files, cautions.
 std::string render_report(const ReportInput& in);
 
 }  // namespace evenhand::review

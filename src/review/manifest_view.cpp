@@ -35,6 +35,39 @@ std::vector<std::pair<std::string, uint64_t>> counts(element obj) {
   return out;
 }
 
+std::vector<std::pair<std::string, double>> reals(element obj) {
+  std::vector<std::pair<std::string, double>> out;
+  simdjson::dom::object o;
+  if (obj.get_object().get(o)) return out;
+  for (auto m : o) {
+    double v = 0;
+    if (!m.value.get_double().get(v)) out.emplace_back(std::string(m.key), v);
+  }
+  return out;
+}
+
+// The "balance" section; an error names the key that is missing or of the wrong type.
+Result<BalanceView> balance_view(element b, const std::string& path) {
+  auto fail = [&](const char* key) {
+    return make_error(ErrorKind::input, path,
+                      std::string("'balance.") + key + "' is missing or of the wrong type");
+  };
+  BalanceView v;
+  v.plan = str(b, "plan");
+  v.basis = str(b, "basis");
+  if (v.basis != "mentions" && v.basis != "records") return fail("basis");
+  v.target = reals(b["target"]);
+  if (v.target.empty()) return fail("target");
+  if (b["tolerance"].get_double().get(v.tolerance)) return fail("tolerance");
+  if (b["planned_tolerance"].get_double().get(v.planned_tolerance)) v.planned_tolerance = 0;
+  if (b["planned_changed"].get_uint64().get(v.planned_changed)) return fail("planned_changed");
+  if (b["lower_bound"].get_uint64().get(v.lower_bound)) return fail("lower_bound");
+  if (b["minimal"].get_bool().get(v.minimal)) return fail("minimal");
+  v.expected_share = reals(b["expected_share"]);
+  v.actions = counts(b["actions"]);
+  return v;
+}
+
 std::vector<FileRow> files(element arr) {
   std::vector<FileRow> out;
   simdjson::dom::array a;
@@ -138,8 +171,18 @@ Result<ManifestView> read_manifest(const std::string& path) {
     m.ambiguous = num(rw, "ambiguous");
     simdjson::dom::array hits;
     if (!rw["entry_hits"].get_array().get(hits))
-      for (element h : hits)
-        m.entry_hits.push_back({str(h, "rule"), str(h, "forms"), num(h, "hits")});
+      for (element h : hits) {
+        bool word = false;
+        if (h["common_word"].get_bool().get(word)) word = false;
+        m.entry_hits.push_back({str(h, "rule"), str(h, "forms"), num(h, "hits"), word});
+      }
+  }
+  element bal;
+  if (!doc["balance"].get(bal)) {
+    if (!bal.is_object()) return fail("'balance' is not an object");
+    auto b = balance_view(bal, path);
+    if (!b.ok()) return std::move(b).error();
+    m.balance = std::move(*b);
   }
   return m;
 }

@@ -24,6 +24,18 @@ struct GroupRow {
 struct HitRow {
   std::string rule, forms;
   uint64_t hits = 0;
+  bool common_word = false;  // a name pair marked ~word in the pack
+};
+
+// The manifest's "balance" section (balance runs): what the plan aimed at and promised.
+struct BalanceView {
+  std::string plan, basis;                             // plan source; "mentions" or "records"
+  std::vector<std::pair<std::string, double>> target;  // group -> weight, in target order
+  double tolerance = 0, planned_tolerance = 0;
+  uint64_t planned_changed = 0, lower_bound = 0;
+  bool minimal = false;
+  std::vector<std::pair<std::string, double>> expected_share;  // group -> the plan's share
+  std::vector<std::pair<std::string, uint64_t>> actions;       // kept, flipped, added, dropped
 };
 
 struct FileRow {
@@ -47,14 +59,16 @@ struct ManifestView {
       rejected_by_reason;
   std::vector<GroupRow> groups;
   uint64_t edits = 0, protected_skips = 0, ambiguous = 0;
-  std::vector<HitRow> entry_hits;  // as in the manifest (rule order)
+  std::vector<HitRow> entry_hits;      // as in the manifest (rule order)
+  std::optional<BalanceView> balance;  // balance runs only
 
   // records.<key>, or 0.
   uint64_t record_count(const std::string& key) const;
 };
 
 // Reads and checks a manifest. Errors (kind input) for unreadable JSON, another schema, or
-// a required key that is missing or has the wrong type.
+// a required key that is missing or has the wrong type (a "balance" section needs basis,
+// target, tolerance, planned_changed, lower_bound and minimal).
 Result<ManifestView> read_manifest(const std::string& path);
 
 }  // namespace evenhand::review

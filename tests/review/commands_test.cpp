@@ -37,6 +37,32 @@ bool exists(const std::string& p) {
   return std::filesystem::exists(p);
 }
 
+// The section of `page` with id `id`, or "" when there is none.
+std::string section_of(const std::string& page, const std::string& id) {
+  size_t at = page.find("<section id=\"" + id + "\"");
+  if (at == std::string::npos) return "";
+  return page.substr(at, page.find("</section>", at) - at);
+}
+
+size_t count(const std::string& s, const std::string& pattern) {
+  std::regex re(pattern);
+  return size_t(
+      std::distance(std::sregex_iterator(s.begin(), s.end(), re), std::sregex_iterator()));
+}
+
+// A pattern for the text of a group's after mentions in a balance run's manifest, up to the
+// number, which it captures when `capture` (else it ends before the number).
+std::string after_mentions(const std::string& group, bool capture) {
+  return "\"" + group +
+         "\": \\{\\s*\"before\": \\{[^}]*\\},\\s*(?:\"planned\": \\{[^}]*\\},\\s*)?\"after\": "
+         "\\{\\s*\"mentions\": " +
+         (capture ? "([0-9]+)" : "");
+}
+
+// The group colours of the report's charts (review/html_report.cpp), for the legend check.
+const std::vector<std::string> kGroupColors = {"#0f766e", "#c2410c", "#6d28d9",
+                                               "#a16207", "#be123c", "#1d4ed8"};
+
 // README: exit codes 2 usage, 3 input, 4 output.
 constexpr int kUsage = 2, kInput = 3, kOutput = 4;
 
@@ -259,6 +285,22 @@ TEST_CASE("report: a self-contained page, written all or nothing") {
                       std::sregex_iterator()) == 12);
   CHECK(page.find("<del title=\"") != std::string::npos);
   CHECK(page.find("<ins title=\"") != std::string::npos);
+  // Legend swatches carry the bars' colours, one per group, in each series' style.
+  std::regex swatch("<rect class=\"bar swatch (before|after)\"[^>]*fill=\"([^\"]+)\"");
+  size_t swatches = 0;
+  for (auto it = std::sregex_iterator(page.begin(), page.end(), swatch);
+       it != std::sregex_iterator(); ++it, ++swatches) {
+    INFO((*it)[0]);
+    CHECK(std::find(kGroupColors.begin(), kGroupColors.end(), (*it)[2].str()) !=
+          kGroupColors.end());
+  }
+  CHECK(swatches == 2 * 2 * 3);  // two charts, before and after, three groups
+  CHECK(page.find("#555") == std::string::npos);
+  // Numbers never break at their thousands separator: a no-break space, and no wrapping.
+  std::string files = section_of(page, "files");
+  CHECK(files.find("\u202F") != std::string::npos);  // the demo's files exceed 999 bytes
+  CHECK(files.find("\u2009") == std::string::npos);
+  CHECK(std::regex_search(page, std::regex("td\\.n,th\\.n\\{[^}]*white-space:nowrap")));
   std::smatch sha;
   std::string manifest = read_file(d.file("m.json"));
   REQUIRE(std::regex_search(manifest, sha, std::regex("\"sha256\": \"([0-9a-f]{64})\"")));
@@ -305,6 +347,100 @@ TEST_CASE("report: a balance run shows the planned counts on its basis's chart")
   CHECK(m_chart.find("class=\"bar planned\" data-series=\"planned\"") != std::string::npos);
   CHECK(r_chart.find("planned") == std::string::npos);  // --basis mentions: no planned records
   CHECK(page.find("No audit log was given") != std::string::npos);
+
+  // The balance header comes first, before the summary: target, tolerance, shares, the plan.
+  std::string bal = section_of(page, "balance");
+  REQUIRE_FALSE(bal.empty());
+  CHECK(page.find("id=\"balance\"") < page.find("id=\"summary\""));
+  CHECK(bal.find("basis mentions, tolerance \u00b12.0 points") != std::string::npos);
+  CHECK(bal.find("id=\"chart-balance\"") != std::string::npos);
+  for (const char* g : {"female", "male"})
+    for (const char* series : {"before", "target", "after"}) {
+      INFO(g << " " << series);
+      CHECK(bal.find(std::string("data-series=\"") + series + "\" data-group=\"" + g + "\"") !=
+            std::string::npos);
+    }
+  CHECK(bal.find("data-group=\"neutral\"") == std::string::npos);  // not a target group
+  // Achieved shares, from the manifest's after counts (the run really reached the target).
+  std::string manifest = read_file(d.file("m.json"));
+  std::smatch f, ml, minimal, changed, bound;
+  REQUIRE(std::regex_search(manifest, f, std::regex(after_mentions("female", true))));
+  REQUIRE(std::regex_search(manifest, ml, std::regex(after_mentions("male", true))));
+  double share = std::stod(f[1]) / (std::stod(f[1]) + std::stod(ml[1]));
+  REQUIRE(std::abs(share - 0.5) <= 0.02);
+  char want[64];
+  std::snprintf(want, sizeof want, "<td class=\"n\">%.1f%%</td>", 100 * share);
+  CHECK(bal.find(want) != std::string::npos);
+  CHECK(bal.find("Target reached:") != std::string::npos);
+  REQUIRE(std::regex_search(manifest, minimal, std::regex("\"minimal\": ?(true|false)")));
+  REQUIRE(std::regex_search(manifest, changed, std::regex("\"planned_changed\": ?([0-9]+)")));
+  REQUIRE(std::regex_search(manifest, bound, std::regex("\"lower_bound\": ?([0-9]+)")));
+  CHECK(bal.find("The plan changes " + changed[1].str() +
+                 " records; no plan can reach the "
+                 "target with fewer than " +
+                 bound[1].str() + ".") != std::string::npos);
+  CHECK(bal.find(minimal[1] == "true" ? "Proved minimal." : "Not proved minimal") !=
+        std::string::npos);
+  CHECK(section_of(page, "look-first").find("data-kind=\"balance\"") == std::string::npos);
+
+  // The same manifest with the female share moved out of the window: missed, and listed first.
+  std::string off = std::regex_replace(
+      manifest, std::regex("(" + after_mentions("female", false) + ")[0-9]+"), "$011");
+  REQUIRE(off != manifest);
+  write_file(d.file("off.json"), off);
+  REQUIRE(run(d, "report --manifest " + d.file("off.json") + " --out " + d.file("off.html")).code ==
+          0);
+  std::string off_page = read_file(d.file("off.html"));
+  CHECK(section_of(off_page, "balance").find("Target missed:") != std::string::npos);
+  CHECK(section_of(off_page, "look-first").find("<li data-kind=\"balance\"><b>female</b>") !=
+        std::string::npos);
+
+  // A balance section without its keys is refused with the key named.
+  write_file(d.file("bad.json"),
+             std::regex_replace(manifest, std::regex("\"minimal\": ?(true|false)"),
+                                "\"minimal\": \"yes\""));
+  auto bad = run(d, "report --manifest " + d.file("bad.json") + " --out " + d.file("bad.html"));
+  CHECK(bad.code == kInput);
+  CHECK(bad.err == "evenhand: " + d.file("bad.json") +
+                       ": 'balance.minimal' is missing or of the wrong type\n");
+  CHECK_FALSE(exists(d.file("bad.html")));
+}
+
+TEST_CASE("report: look here first lists busy entries, word-like names, guards and flags") {
+  // Invented records: "Rose" (a pair the pack marks ~word, a common word) and "Emma" (not
+  // marked) named as persons, "she" in every record, a pregnancy that a medical guard blocks.
+  TempDir d;
+  std::string corpus;
+  for (int i = 0; i < 30; ++i)
+    corpus += std::string("{\"text\": \"") + (i % 2 ? "Rose" : "Emma") +
+              " said she would lead ride " + std::to_string(i) + ".\"}\n";
+  corpus += "{\"text\": \"She is pregnant with twins.\"}\n";
+  write_file(d.file("in.jsonl"), corpus);
+  REQUIRE(run(d, "run --pack en-gender --in " + d.file("in.jsonl") + " --field /text --out " +
+                     d.file("out.jsonl") + " --manifest " + d.file("m.json") + " --quiet")
+              .code == 0);
+  // The manifest marks the hits of ~word pairs (rules/en-gender/names.txt).
+  std::string manifest = read_file(d.file("m.json"));
+  CHECK(std::regex_search(manifest, std::regex("\"forms\": \"Rose\\|Kyle\\|-\",\\s*\"hits\": "
+                                               "15,\\s*\"common_word\": true")));
+  CHECK(std::regex_search(manifest,
+                          std::regex("\"forms\": \"Emma\\|Jacob\\|-\",\\s*\"hits\": 15\\s*\\}")));
+  REQUIRE(run(d, "report --manifest " + d.file("m.json") + " --out " + d.file("r.html")).code == 0);
+  std::string page = read_file(d.file("r.html"));
+  std::string look = section_of(page, "look-first");
+  REQUIRE_FALSE(look.empty());
+  CHECK(page.find("id=\"look-first\"") < page.find("id=\"summary\""));
+  CHECK(section_of(page, "balance").empty());  // not a balance run
+  CHECK(page.find("chart-balance") == std::string::npos);
+  // she|he: 30 edits of 60 (at least 20 and 10%); each name pair 15 (under 20).
+  CHECK(look.find("<li data-kind=\"entry\"><b>she|he|they @subj</b>") != std::string::npos);
+  CHECK(count(look, "data-kind=\"entry\"") == 1);
+  CHECK(look.find("swapped: <b>Rose|Kyle|-</b> 15. Check") != std::string::npos);
+  CHECK(count(look, "data-kind=\"word-name\"") == 1);
+  CHECK(look.find("Emma") == std::string::npos);  // not a common word
+  CHECK(look.find("<li data-kind=\"guarded\"><b>Guarded records: 1</b> (medical 1)") !=
+        std::string::npos);
+  CHECK(look.find("data-kind=\"flagged\"") == std::string::npos);  // nothing flagged
 }
 
 TEST_CASE("report: the cautions are the README's, word for word") {
@@ -327,12 +463,8 @@ TEST_CASE("report: the cautions are the README's, word for word") {
 }
 
 TEST_CASE("report: headless Chromium loads the page and finds the charts") {
-  if (shell("command -v chromium >/dev/null 2>&1") != 0) {
-    // CI installs chromium (.ci/deps); there its absence is a failure.
-    if (std::getenv("CI")) FAIL("chromium is not installed but CI is set");
-    WARN("chromium is not installed: skipping the browser check");
-    return;
-  }
+  // chromium is a dependency of the tests (.ci/deps installs it): missing, the check fails.
+  REQUIRE(shell("command -v chromium >/dev/null 2>&1") == 0);
   TempDir d;
   demo(d);
   std::string in = evenhand::testing::source_dir() + "/samples/helpdesk.jsonl";
@@ -366,6 +498,67 @@ TEST_CASE("report: headless Chromium loads the page and finds the charts") {
   std::regex bar("<rect class=\"bar (before|after)\" data-series=");
   CHECK(std::distance(std::sregex_iterator(dom.begin(), dom.end(), bar), std::sregex_iterator()) >=
         12);
+  // The demo run is no balance run; its look-here-first list names the guarded records.
+  CHECK(dom.find("id=\"balance\"") == std::string::npos);
+  CHECK(dom.find("id=\"chart-balance\"") == std::string::npos);
+  // (std::regex recurses per character: long spans are cut out with find.)
+  CHECK(section_of(dom, "look-first").find("<li data-kind=\"guarded\"><b>Guarded records: 5</b>") !=
+        std::string::npos);
+  // The association table says which columns are before and which after: no label twice.
+  size_t table = dom.find("<table id=\"table-associations\">");
+  REQUIRE(table != std::string::npos);
+  std::string head = dom.substr(table, dom.find("<tr><td>", table) - table);
+  std::vector<std::string> labels;
+  std::regex th("<th[^>]*>([^<]*)</th>");
+  for (auto it = std::sregex_iterator(head.begin(), head.end(), th); it != std::sregex_iterator();
+       ++it)
+    if (!(*it)[1].str().empty()) labels.push_back((*it)[1]);
+  CHECK(labels.size() == 12);  // 2 column groups, target, occurs, 2 x (with f, with m, z, p)
+  std::vector<std::string> sorted = labels;
+  std::sort(sorted.begin(), sorted.end());
+  CHECK(std::adjacent_find(sorted.begin(), sorted.end()) == sorted.end());
+
+  // Numbers keep to one line: the page with a probe script (and without the policy that
+  // forbids it) reports, for each number cell of the files table, on how many lines its text
+  // lies in a narrow window (Range.getClientRects gives one box per line of text).
+  std::string probe = std::regex_replace(read_file(html),
+                                         std::regex("<meta http-equiv=\"Content-Security-Policy\""
+                                                    "[^>]*>"),
+                                         "");
+  probe.replace(probe.rfind("</body>"), 7,
+                "<script>const n=[];for(const td of document.querySelectorAll('#files td.n')){"
+                "const r=document.createRange();r.selectNodeContents(td);const tops=new Set();"
+                "for(const b of r.getClientRects())tops.add(Math.round(b.top));n.push(tops.size)}"
+                "const p=document.createElement('pre');p.id='probe';p.textContent=n.join(' ');"
+                "document.body.appendChild(p);</script></body>");
+  write_file(d.file("probe.html"), probe);
+  REQUIRE(shell("timeout 120 " + chrome + "--window-size=480,900 --dump-dom file://" +
+                d.file("probe.html") + " > " + d.file("probe-dom.html") + " 2>/dev/null") == 0);
+  std::smatch lines;
+  std::string probed = read_file(d.file("probe-dom.html"));
+  REQUIRE(std::regex_search(probed, lines, std::regex("<pre id=\"probe\">([0-9 ]+)</pre>")));
+  INFO("lines per number cell: " << lines[1]);
+  CHECK(std::regex_match(lines[1].str(), std::regex("1( 1)*")));
+  CHECK(lines[1].str().size() >= 9);  // the demo's files: at least 5 cells with a number
+
+  // A balance run: the balance header and its chart, parsed, before the summary.
+  REQUIRE(run(d, "run --pack en-gender --in " + in +
+                     " --field /text --field '/messages/*/content' --mode balance --target "
+                     "female=1,male=1 --out " +
+                     d.file("b.jsonl") + " --manifest " + d.file("bm.json") + " --quiet")
+              .code == 0);
+  REQUIRE(run(d, "report --manifest " + d.file("bm.json") + " --out " + d.file("b.html")).code ==
+          0);
+  REQUIRE(shell("timeout 120 " + chrome + "--dump-dom file://" + d.file("b.html") + " > " +
+                d.file("b-dom.html") + " 2>/dev/null") == 0);
+  std::string bdom = read_file(d.file("b-dom.html"));
+  CHECK(bdom.find("<section id=\"balance\">") < bdom.find("<section id=\"summary\">"));
+  CHECK(std::regex_search(section_of(bdom, "balance"),
+                          std::regex("<svg id=\"chart-balance\"[^>]*>")));
+  CHECK(count(bdom,
+              "<rect class=\"bar (before|planned|after)\" data-series=\"(before|target|"
+              "after)\" data-group=") == 6);
+
   // A screenshot for people to look at, kept in the build tree.
   std::filesystem::create_directories(EVENHAND_TEST_ARTEFACTS);
   std::string png = std::string(EVENHAND_TEST_ARTEFACTS) + "/report.png";
