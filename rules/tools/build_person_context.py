@@ -742,21 +742,7 @@ def main():
     except build_names.BuildError as e:
         print(f"build_person_context.py: {e}", file=sys.stderr)
         return 2
-    data = text.encode("utf-8")
-    if args.check:
-        try:
-            with open(args.out, "rb") as f:
-                same = f.read() == data
-        except FileNotFoundError:
-            same = False
-        print(f"{args.out}: {'up to date' if same else 'DIFFERS from the generator output'}")
-        return 0 if same else 1
-    tmp = args.out + ".tmp"
-    with open(tmp, "wb") as f:
-        f.write(data)
-    os.replace(tmp, args.out)
-    print(f"wrote {args.out}")
-    return 0
+    return 0 if build_names.write_or_check(args.out, text, args.check) else 1
 
 
 if __name__ == "__main__":

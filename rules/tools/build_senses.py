@@ -171,24 +171,11 @@ def main():
     p.add_argument("--check", action="store_true")
     args = p.parse_args()
     try:
-        data = build(args).encode("utf-8")
+        text = build(args)
     except build_names.BuildError as e:
         print(f"build_senses.py: {e}", file=sys.stderr)
         return 2
-    if args.check:
-        try:
-            with open(args.out, "rb") as f:
-                same = f.read() == data
-        except FileNotFoundError:
-            same = False
-        print(f"{args.out}: {'up to date' if same else 'DIFFERS from the generator output'}")
-        return 0 if same else 1
-    tmp = args.out + ".tmp"
-    with open(tmp, "wb") as f:
-        f.write(data)
-    os.replace(tmp, args.out)
-    print(f"wrote {args.out}")
-    return 0
+    return 0 if build_names.write_or_check(args.out, text, args.check) else 1
 
 
 if __name__ == "__main__":
