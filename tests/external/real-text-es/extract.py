@@ -79,14 +79,8 @@ def build():
 
 def main():
     outputs = build()
-    if "--check" in sys.argv[1:]:
-        bad = [n for n, s in outputs.items() if (HERE / n).read_text(encoding="utf-8") != s]
-        if bad:
-            print("extract.py: differs from the committed " + ", ".join(bad), file=sys.stderr)
-            sys.exit(1)
+    if not names_set.write_or_check(HERE, outputs):
         return
-    for name, text in outputs.items():
-        (HERE / name).write_text(text, encoding="utf-8")
     print(f"extract.py: {outputs['records.jsonl'].count(chr(10))} records")
 
 

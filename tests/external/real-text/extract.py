@@ -170,16 +170,24 @@ def build():
     return {"records.jsonl": rec_lines, "names-found.tsv": occ_lines, "split.txt": split_lines}
 
 
-def main():
-    outputs = build()
+def write_or_check(folder, outputs):
+    """Writes each file of `outputs` (name -> text) into `folder`, or with --check on the command
+    line exits 1 when a committed one differs. Returns False after a check."""
     if "--check" in sys.argv[1:]:
-        bad = [n for n, s in outputs.items() if (HERE / n).read_text(encoding="utf-8") != s]
+        bad = [n for n, s in outputs.items() if (folder / n).read_text(encoding="utf-8") != s]
         if bad:
             print("extract.py: differs from the committed " + ", ".join(bad), file=sys.stderr)
             sys.exit(1)
-        return
+        return False
     for name, text in outputs.items():
-        (HERE / name).write_text(text, encoding="utf-8")
+        (folder / name).write_text(text, encoding="utf-8")
+    return True
+
+
+def main():
+    outputs = build()
+    if not write_or_check(HERE, outputs):
+        return
     n_rec = outputs["records.jsonl"].count("\n")
     n_occ = outputs["names-found.tsv"].count("\n")
     print(f"extract.py: {n_rec} records, {n_occ} name occurrences")
