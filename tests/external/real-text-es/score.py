@@ -13,13 +13,11 @@ the development half only and its records not fully right.
 import importlib.util
 import subprocess
 import sys
-import tempfile
 from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
 ROOT = HERE.parents[2]
 sys.path.insert(0, str(HERE.parent / "real-text"))
-import extract as names_extract  # noqa: E402  (half: the split rule)
 import score as names_score  # noqa: E402  (load_jsonl, applied_edits, report_halves)
 
 _spec = importlib.util.spec_from_file_location("neutral_score",
@@ -50,28 +48,7 @@ def run_engine(binary, work):
 
 
 def main():
-    args = sys.argv[1:]
-    binary = Path(args[args.index("--bin") + 1]) if "--bin" in args else ROOT / "build/evenhand"
-    split = dict(l.split("\t") for l in (HERE / "split.txt").read_text().splitlines())
-    records = {}
-    for r in names_score.load_jsonl(HERE / "records.jsonl"):
-        if split[r["id"]] != names_extract.half(r["id"]):
-            sys.exit(f"score.py: split.txt disagrees with the hash rule for {r['id']}")
-        records[r["id"]] = {"text": r["text"], "half": split[r["id"]]}
-    ids = list(records)
-    expected = names_score.load_jsonl(HERE / "expected.jsonl")
-    with tempfile.TemporaryDirectory() as tmp:
-        out, log = run_engine(binary, Path(tmp))
-    outputs = {rid: rec["text"] for rid, rec in zip(ids, out)}
-    edits = names_score.applied_edits(log, ids)
-    print(f"real-text-es: {len(records)} records, {len(expected)} expected")
-    names_score.report_halves(
-        args, FLOORS,
-        lambda half, errors: neutral_score.score_half(half, records, outputs, edits, expected,
-                                                      errors),
-        lambda s: f"records fully right {s['records']:.1%}  edit precision "
-                  f"{s['edit_precision']:.1%}  ({s['counts']})")
-
+    neutral_score.score_set("real-text-es", HERE, FLOORS, run_engine)
 
 if __name__ == "__main__":
     main()

@@ -79,28 +79,33 @@ def score_half(half, records, outputs, edits, expected, errors):
             "counts": f"records {right}/{total}, edits {good}/{applied}"}
 
 
-def main():
+def score_set(label, here, floors, run_engine):
+    """Runs `run_engine(binary, work)` on the set in folder `here` and reports both halves
+    against `floors` (the command line's --bin, --check and --dev)."""
     args = sys.argv[1:]
     binary = Path(args[args.index("--bin") + 1]) if "--bin" in args else ROOT / "build/evenhand"
-    split = dict(l.split("\t") for l in (HERE / "split.txt").read_text().splitlines())
+    split = dict(l.split("\t") for l in (here / "split.txt").read_text().splitlines())
     records = {}
-    for r in names_score.load_jsonl(HERE / "records.jsonl"):
+    for r in names_score.load_jsonl(here / "records.jsonl"):
         if split[r["id"]] != names_extract.half(r["id"]):
             sys.exit(f"score.py: split.txt disagrees with the hash rule for {r['id']}")
         records[r["id"]] = {"text": r["text"], "half": split[r["id"]]}
     ids = list(records)
-    expected = names_score.load_jsonl(HERE / "expected.jsonl")
+    expected = names_score.load_jsonl(here / "expected.jsonl")
     with tempfile.TemporaryDirectory() as tmp:
         out, log = run_engine(binary, Path(tmp))
     outputs = {rid: rec["text"] for rid, rec in zip(ids, out)}
     edits = names_score.applied_edits(log, ids)
-    print(f"real-text-neutral: {len(records)} records, {len(expected)} expected")
+    print(f"{label}: {len(records)} records, {len(expected)} expected")
     names_score.report_halves(
-        args, FLOORS,
+        args, floors,
         lambda half, errors: score_half(half, records, outputs, edits, expected, errors),
         lambda s: f"records fully right {s['records']:.1%}  edit precision "
                   f"{s['edit_precision']:.1%}  ({s['counts']})")
 
+
+def main():
+    score_set("real-text-neutral", HERE, FLOORS, run_engine)
 
 if __name__ == "__main__":
     main()
