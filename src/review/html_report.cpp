@@ -490,8 +490,8 @@ std::string look_first_section(const ManifestView& m) {
   if (words > kLookWordNames) names += " and " + std::to_string(words - kLookWordNames) + " more";
   if (words)
     item("word-name",
-         "First names that are also common English words (<code>~word</code> in "
-         "the pack), swapped: " +
+         "Name pairs swapped of which one name is also a common English word (<code>~word</code> "
+         "in the pack: Mary|John for \u201cjohn\u201d): " +
              names + ". Check that they named persons.");
   auto reasons = [](const std::vector<std::pair<std::string, uint64_t>>& by) {
     std::string s;
