@@ -435,7 +435,7 @@ TEST_CASE("report: look here first lists busy entries, word-like names, guards a
   // she|he: 30 edits of 60 (at least 20 and 10%); each name pair 15 (under 20).
   CHECK(look.find("<li data-kind=\"entry\"><b>she|he|they @subj</b>") != std::string::npos);
   CHECK(count(look, "data-kind=\"entry\"") == 1);
-  CHECK(look.find("swapped: <b>Rose|Kyle|-</b> 15. Check") != std::string::npos);
+  CHECK(look.find("\u201cjohn\u201d): <b>Rose|Kyle|-</b> 15. Check") != std::string::npos);
   CHECK(count(look, "data-kind=\"word-name\"") == 1);
   CHECK(look.find("Emma") == std::string::npos);  // not a common word
   CHECK(look.find("<li data-kind=\"guarded\"><b>Guarded records: 1</b> (medical 1)") !=
