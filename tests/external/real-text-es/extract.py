@@ -15,7 +15,6 @@ line (a name: "-- Javier Marías"). In each file, fortunes with a person word ar
 in file order, up to the file's budget, then name-only fortunes up to their budget.
 """
 import codecs
-import json
 import re
 import sys
 from pathlib import Path
@@ -71,10 +70,7 @@ def build():
         keep = {x[0] for x in [x for x in items if x[3]][:n_person]
                 + [x for x in items if not x[3]][:n_name]}
         records += [x[:3] for x in items if x[0] in keep]
-    rec = "".join(json.dumps({"id": r, "source": s, "text": t}, ensure_ascii=False) + "\n"
-                  for r, s, t in records)
-    split = "".join(f"{r}\t{names_set.half(r)}\n" for r, _, _ in records)
-    return {"records.jsonl": rec, "split.txt": split}
+    return names_set.set_files([{"id": r, "source": s, "text": t} for r, s, t in records])
 
 
 def main():

@@ -17,7 +17,6 @@ With --check, compares with the committed files and exits 1 on a difference.
 import gzip
 import hashlib
 import importlib.util
-import json
 import re
 import sys
 from pathlib import Path
@@ -125,10 +124,8 @@ def build():
     sample.sort()
     chosen += [(rid, src, "sample", text) for _, rid, src, text in sample[:SAMPLE_SIZE]
                if rid not in LEFT_OUT]
-    rec = "".join(json.dumps({"id": r, "source": s, "kind": k, "text": t}, ensure_ascii=False)
-                  + "\n" for r, s, k, t in chosen)
-    split = "".join(f"{r}\t{names_set.half(r)}\n" for r, _, _, _ in chosen)
-    return {"records.jsonl": rec, "split.txt": split}
+    return names_set.set_files([{"id": r, "source": s, "kind": k, "text": t}
+                                for r, s, k, t in chosen])
 
 
 def main():

@@ -13,7 +13,6 @@ form (s/he, he/she ...). Records holding a coordinated alternative of the two se
 until each source's budget is used.
 """
 import gzip
-import json
 import re
 import sys
 from pathlib import Path
@@ -82,10 +81,7 @@ def jargon_records():
 
 def build():
     records = list(fortune_records()) + list(brown_records()) + list(jargon_records())
-    rec = "".join(json.dumps({"id": r, "source": s, "text": t}, ensure_ascii=False) + "\n"
-                  for r, s, t in records)
-    split = "".join(f"{r}\t{names_set.half(r)}\n" for r, _, _ in records)
-    return {"records.jsonl": rec, "split.txt": split}
+    return names_set.set_files([{"id": r, "source": s, "text": t} for r, s, t in records])
 
 
 def main():

@@ -170,6 +170,14 @@ def build():
     return {"records.jsonl": rec_lines, "names-found.tsv": occ_lines, "split.txt": split_lines}
 
 
+def set_files(rows):
+    """records.jsonl (one JSON object per row, keys in the row's order) and split.txt (id, half)
+    of a real-text set; every row has an "id"."""
+    rec = "".join(json.dumps(r, ensure_ascii=False) + "\n" for r in rows)
+    split = "".join(f"{r['id']}\t{half(r['id'])}\n" for r in rows)
+    return {"records.jsonl": rec, "split.txt": split}
+
+
 def write_or_check(folder, outputs):
     """Writes each file of `outputs` (name -> text) into `folder`, or with --check on the command
     line exits 1 when a committed one differs. Returns False after a check."""
