@@ -431,6 +431,17 @@ def render_mixed(mixed, args, versions, years):
     return "".join(line + "\n" for line in out)
 
 
+def build_and_write(script, make, out, check):
+    """The end of a builder's main: text = make(), written to (or compared with) `out`. Returns
+    the exit code: 0, 1 when --check finds a difference, 2 when an input is missing or bad."""
+    try:
+        text = make()
+    except BuildError as e:
+        print(f"{script}: {e}", file=sys.stderr)
+        return 2
+    return 0 if write_or_check(out, text, check) else 1
+
+
 def write_or_check(path, text, check):
     """Returns True when `path` holds `text` (check) or was written (atomically)."""
     data = text.encode("utf-8")

@@ -737,12 +737,7 @@ def main():
                                                  build_names.SSA_PKG))
     p.add_argument("--check", action="store_true")
     args = p.parse_args()
-    try:
-        text = build(args)
-    except build_names.BuildError as e:
-        print(f"build_person_context.py: {e}", file=sys.stderr)
-        return 2
-    return 0 if build_names.write_or_check(args.out, text, args.check) else 1
+    return build_names.build_and_write("build_person_context.py", lambda: build(args), args.out, args.check)
 
 
 if __name__ == "__main__":

@@ -170,12 +170,7 @@ def main():
     p.add_argument("--out", default=DEFAULT_OUT)
     p.add_argument("--check", action="store_true")
     args = p.parse_args()
-    try:
-        text = build(args)
-    except build_names.BuildError as e:
-        print(f"build_senses.py: {e}", file=sys.stderr)
-        return 2
-    return 0 if build_names.write_or_check(args.out, text, args.check) else 1
+    return build_names.build_and_write("build_senses.py", lambda: build(args), args.out, args.check)
 
 
 if __name__ == "__main__":
